@@ -1,0 +1,36 @@
+#!/bin/sh
+# deps.sh — makes sure the Debian packages bellcheck builds and tests with are installed.
+# Usage: deps.sh build|test.  As root on a Debian-like system, installs what is
+# missing with apt-get; otherwise prints the exact command to run and fails.
+set -u
+need_build="libglpk-dev libgmp-dev libcjson-dev libsuitesparse-dev pkg-config"
+need_test="python3-numpy python3-scipy glpk-utils"
+case "${1:-build}" in
+  build) pkgs="$need_build" ;;
+  test)  pkgs="$need_build $need_test" ;;
+  *) echo "deps.sh: usage: deps.sh build|test" >&2; exit 2 ;;
+esac
+missing=""
+if command -v dpkg-query >/dev/null 2>&1; then
+  for p in $pkgs; do
+    st=$(dpkg-query -W -f='${Status}' "$p" 2>/dev/null)
+    case "$st" in *"install ok installed"*) ;; *) missing="$missing $p" ;; esac
+  done
+else
+  echo "bellcheck: this is not a Debian-like system (no dpkg-query)." >&2
+  echo "bellcheck: install the equivalents of:$pkgs" >&2
+  exit 1
+fi
+[ -z "$missing" ] && exit 0
+if [ "$(id -u)" = 0 ] && command -v apt-get >/dev/null 2>&1; then
+  echo "bellcheck: installing missing packages:$missing" >&2
+  export DEBIAN_FRONTEND=noninteractive
+  apt-get update -qq >&2 || { echo "bellcheck: apt-get update failed" >&2; exit 1; }
+  # shellcheck disable=SC2086
+  apt-get install -y -qq --no-install-recommends $missing >&2 || {
+    echo "bellcheck: apt-get install failed for:$missing" >&2; exit 1; }
+  exit 0
+fi
+echo "bellcheck: missing system packages:$missing" >&2
+echo "bellcheck: run as root:  apt-get update && apt-get install -y$missing" >&2
+exit 1

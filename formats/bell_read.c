@@ -1,0 +1,374 @@
+/* bell_read.c — the .bell text reader: one pass over the bytes, tokens fed to the builder. */
+/*
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Tokens are separated by spaces or tabs; a token never needs a copy: it is a
+ * (pointer, length) into the caller's buffer.  A line is a transition line
+ * exactly when it contains the token `->`, so state names never clash with the
+ * directive keywords.  Columns count bytes from 1.
+ */
+#include "bellcheck.h"
+
+#include <stdlib.h>
+#include <string.h>
+
+typedef struct {
+    const char *s;
+    size_t len;
+    int32_t col;
+} token;
+
+typedef struct {
+    const char *file;
+    bc_diag *diag;
+    bc_builder *b;
+    int32_t line;
+    const char *line_start;
+    token *tok;
+    size_t n_tok, cap_tok;
+    int errors;
+    int seen_content; /* a non-comment line was already read */
+} reader;
+
+static bc_pos pos_of(const reader *r, const token *t)
+{
+    bc_pos p = {r->line, t ? t->col : 1, NULL};
+    return p;
+}
+
+static int report(reader *r, const token *t, const char *fmt, const char *a, size_t alen)
+{
+    r->errors++;
+    bc_diag_add(r->diag, BC_ERROR, r->file, r->line, t ? t->col : 1, fmt, (int)alen, a);
+    return -1;
+}
+
+static int is_name_start(char c)
+{
+    return (c >= 'A' && c <= 'Z') || (c >= 'a' && c <= 'z') || c == '_';
+}
+
+static int is_name_char(char c)
+{
+    return is_name_start(c) || (c >= '0' && c <= '9') || c == '.' || c == ':' || c == '-';
+}
+
+/* Checks that t is a name: [A-Za-z_][A-Za-z0-9_.:-]*, at most 255 bytes. */
+static int expect_name(reader *r, const token *t, const char *what)
+{
+    char fmt[160];
+    if (!is_name_start(t->s[0])) {
+        snprintf(fmt, sizeof fmt, "expected %s (a name such as s1 or left), found `%%.*s`", what);
+        return report(r, t, fmt, t->s, t->len);
+    }
+    for (size_t i = 1; i < t->len; i++) {
+        if (!is_name_char(t->s[i])) {
+            snprintf(fmt, sizeof fmt,
+                     "expected %s; `%%.*s` contains a character not allowed in names "
+                     "(letters, digits, _ . : -)",
+                     what);
+            return report(r, t, fmt, t->s, t->len);
+        }
+    }
+    if (t->len > BC_NAME_MAX)
+        return report(r, t, "a name is at most 255 bytes long; `%.*s...` is longer", t->s, 40);
+    return 0;
+}
+
+/* Parses t as an exact number into *out. */
+static int expect_number(reader *r, const token *t, const char *what, bc_num *out)
+{
+    const char *why = NULL;
+    if (bc_num_parse(t->s, t->len, out, bc_builder_bigtab(r->b), &why) == 0)
+        return 0;
+    char fmt[320];
+    snprintf(fmt, sizeof fmt, "expected %s, found `%%.*s` (%s)", what, why);
+    return report(r, t, fmt, t->s, t->len > 80 ? 80 : t->len);
+}
+
+static int is_number_token(const token *t)
+{
+    char c = t->s[0];
+    return (c >= '0' && c <= '9') || ((c == '-' || c == '+' || c == '.') && !(t->len == 2 && t->s[1] == '>'));
+}
+
+static int is_arrow(const token *t)
+{
+    return t->len == 2 && t->s[0] == '-' && t->s[1] == '>';
+}
+
+/* Splits one line [p, end) into tokens, stopping at '#'. */
+static int tokenize(reader *r, const char *p, const char *end)
+{
+    r->n_tok = 0;
+    while (p < end) {
+        while (p < end && (*p == ' ' || *p == '\t' || *p == '\r'))
+            p++;
+        if (p >= end || *p == '#')
+            break;
+        const char *start = p;
+        while (p < end && *p != ' ' && *p != '\t' && *p != '\r' && *p != '#')
+            p++;
+        if (r->n_tok == r->cap_tok) {
+            size_t cap = r->cap_tok ? 2 * r->cap_tok : 64;
+            token *t = realloc(r->tok, cap * sizeof *t);
+            if (!t) {
+                bc_diag_add(r->diag, BC_ERROR, r->file, r->line, 1, "out of memory");
+                return -1;
+            }
+            r->tok = t;
+            r->cap_tok = cap;
+        }
+        token *t = &r->tok[r->n_tok++];
+        t->s = start;
+        t->len = (size_t)(p - start);
+        t->col = (int32_t)(start - r->line_start) + 1;
+    }
+    return 0;
+}
+
+/* STATE ACTION REWARD -> NEXT [PROB [OUTCOME]] ... */
+static int transition_line(reader *r)
+{
+    token *t = r->tok;
+    size_t n = r->n_tok;
+    if (n < 4 || !is_arrow(&t[3])) {
+        const token *bad = n >= 4 ? &t[3] : &t[n - 1];
+        if (n >= 4)
+            return report(r, bad,
+                          "expected `->` after STATE ACTION REWARD, found `%.*s`", bad->s,
+                          bad->len);
+        return report(r, bad, "expected STATE ACTION REWARD -> NEXT ...; the line ends after `%.*s`",
+                      bad->s, bad->len);
+    }
+    bc_num reward;
+    if (expect_name(r, &t[0], "a state name") < 0 || expect_name(r, &t[1], "an action name") < 0 ||
+        expect_number(r, &t[2], "the reward (a number)", &reward) < 0)
+        return -1;
+    if (bc_builder_pair_begin(r->b, t[0].s, t[0].len, pos_of(r, &t[0]), t[1].s, t[1].len,
+                              pos_of(r, &t[1]), reward) < 0)
+        return -1;
+    size_t i = 4;
+    int rc = 0;
+    if (i >= n)
+        rc = report(r, &t[3], "expected a successor state after `%.*s`", t[3].s, t[3].len);
+    while (rc == 0 && i < n) {
+        const token *name = &t[i++];
+        if (expect_name(r, name, "a successor state") < 0) {
+            rc = -1;
+            break;
+        }
+        bc_num prob, outcome;
+        int has_prob = 0, has_outcome = 0;
+        if (i < n && is_number_token(&t[i])) {
+            if (expect_number(r, &t[i++], "a probability", &prob) < 0) {
+                rc = -1;
+                break;
+            }
+            has_prob = 1;
+            if (i < n && is_number_token(&t[i])) {
+                if (expect_number(r, &t[i++], "an outcome reward", &outcome) < 0) {
+                    rc = -1;
+                    break;
+                }
+                has_outcome = 1;
+            }
+        }
+        if (bc_builder_succ(r->b, name->s, name->len, has_prob ? &prob : NULL,
+                            has_outcome ? &outcome : NULL, pos_of(r, name)) < 0)
+            rc = -1;
+    }
+    /* After an error the line is dropped whole: checking its sum would only add noise. */
+    if (rc < 0) {
+        bc_builder_pair_cancel(r->b);
+        return -1;
+    }
+    return bc_builder_pair_end(r->b, pos_of(r, &t[0]));
+}
+
+/* `states`, `actions`, `terminal`: KEYWORD NAME ... */
+static int list_line(reader *r, int (*begin)(bc_builder *, bc_pos), const char *what)
+{
+    if (r->n_tok < 2)
+        return report(r, &r->tok[0], "`%.*s` needs at least one name", r->tok[0].s, r->tok[0].len);
+    int rc = begin(r->b, pos_of(r, &r->tok[0]));
+    for (size_t i = 1; i < r->n_tok && rc == 0; i++) {
+        if (expect_name(r, &r->tok[i], what) < 0 ||
+            bc_builder_list_add(r->b, r->tok[i].s, r->tok[i].len, pos_of(r, &r->tok[i])) < 0)
+            rc = -1;
+    }
+    bc_builder_list_end(r->b, pos_of(r, &r->tok[0]));
+    return rc;
+}
+
+/* initial S1 P1 S2 P2 ...   or   initial S */
+static int initial_line(reader *r)
+{
+    token *t = r->tok;
+    size_t n = r->n_tok;
+    if (n < 2)
+        return report(r, &t[0], "`%.*s` needs a state, or states with probabilities", t[0].s,
+                      t[0].len);
+    if (bc_builder_initial_begin(r->b, pos_of(r, &t[0])) < 0)
+        return -1;
+    size_t i = 1;
+    while (i < n) {
+        if (expect_name(r, &t[i], "a state name") < 0)
+            return -1;
+        const token *name = &t[i++];
+        bc_num p;
+        int has = 0;
+        if (i < n && is_number_token(&t[i])) {
+            if (expect_number(r, &t[i++], "a probability", &p) < 0)
+                return -1;
+            if (bc_num_sign(p, bc_builder_bigtab(r->b)) < 0)
+                return report(r, &t[i - 1], "a probability must not be negative: `%.*s`",
+                              t[i - 1].s, t[i - 1].len);
+            has = 1;
+        }
+        if (bc_builder_initial_add(r->b, name->s, name->len, has ? &p : NULL, pos_of(r, name)) < 0)
+            return -1;
+    }
+    return bc_builder_initial_end(r->b, pos_of(r, &t[0]));
+}
+
+/* KEYWORD NUMBER lines: bell, discount, horizon. */
+static int number_line(reader *r, const char *what, bc_num *out)
+{
+    if (r->n_tok != 2) {
+        const token *t = r->n_tok < 2 ? &r->tok[0] : &r->tok[2];
+        if (r->n_tok < 2)
+            return report(r, t, "`%.*s` needs one number", t->s, t->len);
+        return report(r, t, "unexpected `%.*s`: this directive takes one number", t->s, t->len);
+    }
+    return expect_number(r, &r->tok[1], what, out);
+}
+
+static int token_is(const token *t, const char *word)
+{
+    size_t n = strlen(word);
+    return t->len == n && memcmp(t->s, word, n) == 0;
+}
+
+/* `name TEXT`: the rest of the line after the keyword, trimmed. */
+static int name_line(reader *r, const char *end)
+{
+    const char *p = r->tok[0].s + r->tok[0].len;
+    while (p < end && (*p == ' ' || *p == '\t'))
+        p++;
+    const char *q = end;
+    while (q > p && (q[-1] == ' ' || q[-1] == '\t' || q[-1] == '\r'))
+        q--;
+    if (q == p)
+        return report(r, &r->tok[0], "`%.*s` needs a text", r->tok[0].s, r->tok[0].len);
+    return bc_builder_name(r->b, p, (size_t)(q - p), pos_of(r, &r->tok[0]));
+}
+
+static int directive_line(reader *r, const char *end)
+{
+    token *k = &r->tok[0];
+    bc_num x;
+    if (token_is(k, "bell")) {
+        if (r->seen_content)
+            return report(r, k, "`%.*s` (the version line) must be the first line", k->s, k->len);
+        if (number_line(r, "the format version", &x) < 0)
+            return -1;
+        if (!(x.den == 1 && x.num == 1))
+            return report(r, &r->tok[1], "unsupported format version `%.*s`; this reader knows version 1",
+                          r->tok[1].s, r->tok[1].len);
+        return 0;
+    }
+    if (token_is(k, "name"))
+        return name_line(r, end);
+    if (token_is(k, "discount"))
+        return number_line(r, "the discount (a number in (0, 1])", &x) < 0
+                   ? -1
+                   : bc_builder_discount(r->b, x, pos_of(r, &r->tok[1]));
+    if (token_is(k, "horizon"))
+        return number_line(r, "the horizon (a positive integer)", &x) < 0
+                   ? -1
+                   : bc_builder_horizon(r->b, x, pos_of(r, &r->tok[1]));
+    if (token_is(k, "objective")) {
+        if (r->n_tok != 2 || !(token_is(&r->tok[1], "max") || token_is(&r->tok[1], "min"))) {
+            const token *t = r->n_tok >= 2 ? &r->tok[1] : k;
+            return report(r, t, "expected `objective max` or `objective min`, found `%.*s`", t->s,
+                          t->len);
+        }
+        return bc_builder_objective(r->b, token_is(&r->tok[1], "max") ? BC_MAX : BC_MIN,
+                                    pos_of(r, k));
+    }
+    if (token_is(k, "initial"))
+        return initial_line(r);
+    if (token_is(k, "terminal"))
+        return list_line(r, bc_builder_terminal_begin, "a state name");
+    if (token_is(k, "states"))
+        return list_line(r, bc_builder_states_begin, "a state name");
+    if (token_is(k, "actions"))
+        return list_line(r, bc_builder_actions_begin, "an action name");
+    if (is_name_start(k->s[0]))
+        return report(r, k,
+                      "`%.*s` is not a directive, and the line has no `->`; expected a directive "
+                      "(bell, name, discount, objective, horizon, initial, terminal, states, "
+                      "actions) or STATE ACTION REWARD -> NEXT ...",
+                      k->s, k->len);
+    return report(r, k, "expected a directive or a transition line, found `%.*s`", k->s, k->len);
+}
+
+/* Reads one line [p, end). */
+static int read_line(reader *r, const char *p, const char *end)
+{
+    r->line_start = p;
+    const char *nul = memchr(p, '\0', (size_t)(end - p));
+    if (nul) {
+        r->errors++;
+        bc_diag_add(r->diag, BC_ERROR, r->file, r->line, (int32_t)(nul - p) + 1,
+                    "binary data (a NUL byte); a model is UTF-8 text");
+        return -2; /* stop: the rest is not text */
+    }
+    if (tokenize(r, p, end) < 0)
+        return -2;
+    if (r->n_tok == 0)
+        return 0;
+    int rc = 0;
+    int is_transition = 0;
+    for (size_t i = 1; i < r->n_tok && !is_transition; i++)
+        is_transition = is_arrow(&r->tok[i]);
+    if (is_transition)
+        rc = transition_line(r);
+    else
+        rc = directive_line(r, end);
+    r->seen_content = 1;
+    return rc;
+}
+
+bc_model *bc_read_bell_text(const char *buf, size_t len, const char *file_label, bc_diag *d)
+{
+    reader r = {0};
+    r.file = file_label ? file_label : "<input>";
+    r.diag = d;
+    r.b = bc_builder_new(r.file, d);
+    if (!r.b) {
+        bc_diag_add(d, BC_ERROR, r.file, 0, 0, "out of memory");
+        return NULL;
+    }
+    const char *p = buf, *end = buf + len;
+    if (len >= 3 && (unsigned char)p[0] == 0xEF && (unsigned char)p[1] == 0xBB &&
+        (unsigned char)p[2] == 0xBF)
+        p += 3; /* UTF-8 byte-order mark */
+    int stop = 0;
+    while (p < end && !stop) {
+        const char *eol = memchr(p, '\n', (size_t)(end - p));
+        if (!eol)
+            eol = end;
+        r.line++;
+        if (read_line(&r, p, eol) == -2 || bc_diag_full(d))
+            stop = 1;
+        p = eol + 1;
+    }
+    free(r.tok);
+    if (r.errors || stop) {
+        bc_builder_free(r.b);
+        return NULL;
+    }
+    return bc_builder_finish(r.b, NULL);
+}

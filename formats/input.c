@@ -1,0 +1,101 @@
+/* input.c — reading whole input files (or standard input) and choosing the model reader. */
+/* SPDX-License-Identifier: GPL-3.0-or-later */
+#include "bellcheck.h"
+
+#include <errno.h>
+#include <fcntl.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+/* Reads everything from fd into a growing buffer. */
+static int read_all(int fd, size_t hint, char **buf, size_t *len)
+{
+    size_t cap = hint + 1 > 65536 ? hint + 1 : 65536, n = 0;
+    char *p = malloc(cap + 1);
+    if (!p)
+        return -1;
+    for (;;) {
+        if (n == cap) {
+            if (cap > SIZE_MAX / 2 - 1) {
+                free(p);
+                errno = ENOMEM;
+                return -1;
+            }
+            char *q = realloc(p, 2 * cap + 1);
+            if (!q) {
+                free(p);
+                return -1;
+            }
+            p = q;
+            cap *= 2;
+        }
+        ssize_t got = read(fd, p + n, cap - n);
+        if (got < 0) {
+            if (errno == EINTR)
+                continue;
+            free(p);
+            return -1;
+        }
+        if (got == 0)
+            break;
+        n += (size_t)got;
+    }
+    p[n] = 0;
+    *buf = p;
+    *len = n;
+    return 0;
+}
+
+int bc_read_file(const char *path, char **buf, size_t *len, bc_diag *d)
+{
+    int is_stdin = strcmp(path, "-") == 0;
+    const char *label = is_stdin ? "<stdin>" : path;
+    int fd = is_stdin ? STDIN_FILENO : open(path, O_RDONLY);
+    if (fd < 0) {
+        bc_diag_add(d, BC_ERROR, label, 0, 0, "cannot open: %s", strerror(errno));
+        return -1;
+    }
+    struct stat st;
+    if (fstat(fd, &st) == 0 && S_ISDIR(st.st_mode)) {
+        bc_diag_add(d, BC_ERROR, label, 0, 0, "is a directory, not a file");
+        if (!is_stdin)
+            close(fd);
+        return -1;
+    }
+    size_t hint = (fstat(fd, &st) == 0 && S_ISREG(st.st_mode)) ? (size_t)st.st_size : 0;
+    int rc = read_all(fd, hint, buf, len);
+    int err = errno;
+    if (!is_stdin)
+        close(fd);
+    if (rc < 0) {
+        bc_diag_add(d, BC_ERROR, label, 0, 0, "cannot read: %s", strerror(err));
+        return -1;
+    }
+    return 0;
+}
+
+bc_model *bc_read_model(const char *path, bc_diag *d)
+{
+    char *buf;
+    size_t len;
+    if (bc_read_file(path, &buf, &len, d) < 0)
+        return NULL;
+    const char *label = strcmp(path, "-") == 0 ? "<stdin>" : path;
+    size_t i = 0;
+    if (len >= 3 && (unsigned char)buf[0] == 0xEF && (unsigned char)buf[1] == 0xBB &&
+        (unsigned char)buf[2] == 0xBF)
+        i = 3;
+    while (i < len && (buf[i] == ' ' || buf[i] == '\t' || buf[i] == '\r' || buf[i] == '\n'))
+        i++;
+    bc_model *m = NULL;
+    if (i == len)
+        bc_diag_add(d, BC_ERROR, label, 0, 0, "the file is empty: expected a model");
+    else if (buf[i] == '{')
+        m = bc_read_bell_json(buf, len, label, d);
+    else
+        m = bc_read_bell_text(buf, len, label, d);
+    free(buf);
+    return m;
+}

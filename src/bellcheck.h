@@ -1,0 +1,343 @@
+/* bellcheck.h — the public interface of libbellcheck: exact numbers, the model, readers, writers, solvers and analyses. */
+/*
+ * Copyright (C) 2026 the bellcheck developers.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Conventions (see docs/library.md for the full reference):
+ *  - every public name starts with bc_;
+ *  - functions that allocate return NULL (or a negative status) on failure and
+ *    free whatever they took; callers check;
+ *  - readers report problems into a bc_diag and never print.
+ */
+#ifndef BELLCHECK_H
+#define BELLCHECK_H
+
+#include <stddef.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <gmp.h>
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+#define BC_VERSION "0.1.0"
+
+/* ------------------------------------------------------------------------ */
+/* Exact numbers                                                            */
+/* ------------------------------------------------------------------------ */
+
+/* An exact rational.  den > 0: the small rational num/den in lowest terms.
+ * den == 0: a big rational stored in a bc_bigtab at index num.
+ * Small form is used whenever numerator and denominator fit in int64. */
+typedef struct {
+    int64_t num;
+    int64_t den;
+} bc_num;
+
+/* Storage for the rationals that do not fit the small form (GMP). */
+typedef struct bc_bigtab bc_bigtab;
+
+/* Largest number of digits (mantissa) and largest |exponent| a number may have. */
+#define BC_NUM_MAX_DIGITS 4096
+#define BC_NUM_MAX_EXPONENT 4096
+
+bc_bigtab *bc_bigtab_new(void);                           /* empty table; NULL if out of memory */
+void bc_bigtab_free(bc_bigtab *big);                      /* frees the table and every value; NULL is allowed */
+size_t bc_bigtab_count(const bc_bigtab *big);             /* number of big values held */
+
+/* Parses s[0..len) (integer, decimal with optional exponent, or p/q) exactly.
+ * Returns 0 and sets *out, or -1 and sets *why to a static explanation. */
+int bc_num_parse(const char *s, size_t len, bc_num *out, bc_bigtab *big, const char **why);
+bc_num bc_num_int(int64_t v);                             /* the integer v */
+double bc_num_to_double(bc_num x, const bc_bigtab *big);  /* nearest double (big: GMP's truncation) */
+void bc_num_to_mpq(mpq_t out, bc_num x, const bc_bigtab *big); /* exact copy into an initialised mpq_t */
+int bc_num_from_mpq(bc_num *out, const mpq_t x, bc_bigtab *big); /* canonical bc_num of x; -1 on out of memory */
+int bc_num_cmp(bc_num a, bc_num b, const bc_bigtab *big); /* <0, 0, >0 as a <, ==, > b */
+int bc_num_sign(bc_num x, const bc_bigtab *big);          /* -1, 0 or 1 */
+int bc_num_is_one(bc_num x, const bc_bigtab *big);        /* 1 when x == 1 exactly */
+int bc_num_add(bc_num a, bc_num b, bc_num *out, bc_bigtab *big); /* out = a + b exactly; -1 on out of memory */
+int bc_num_mul(bc_num a, bc_num b, bc_num *out, bc_bigtab *big); /* out = a * b exactly; -1 on out of memory */
+int bc_num_div(bc_num a, bc_num b, bc_num *out, bc_bigtab *big); /* out = a / b exactly; -1 if b == 0 or out of memory */
+/* Writes x in the model format: a terminating decimal when den is 2^i 5^j
+ * (at most 40 fraction digits), otherwise p/q.  Returns bytes written or -1. */
+int bc_num_write(FILE *f, bc_num x, const bc_bigtab *big);
+/* The same text into buf (NUL-terminated, truncated to cap); returns the full length. */
+size_t bc_num_format(char *buf, size_t cap, bc_num x, const bc_bigtab *big);
+/* Lowest-terms "p/q" (or "p" for integers) into buf; returns the full length. */
+size_t bc_num_format_fraction(char *buf, size_t cap, bc_num x, const bc_bigtab *big);
+
+/* ------------------------------------------------------------------------ */
+/* Diagnostics                                                              */
+/* ------------------------------------------------------------------------ */
+
+typedef enum { BC_NOTE = 0, BC_WARNING = 1, BC_ERROR = 2 } bc_severity;
+
+typedef struct {
+    bc_severity severity;
+    char *file;    /* may be NULL */
+    int32_t line;  /* 1-based; 0 when the problem has no position */
+    int32_t col;   /* 1-based; 0 when unknown */
+    char *message; /* one line, no trailing newline */
+} bc_diag_item;
+
+/* A list of messages collected by readers and analyses.  At most max_errors
+ * errors are kept (default 20); later ones only count in n_dropped. */
+typedef struct {
+    bc_diag_item *items;
+    int n, cap;
+    int n_errors, n_warnings, n_dropped;
+    int max_errors;
+} bc_diag;
+
+void bc_diag_init(bc_diag *d);                 /* empty list, max_errors 20 */
+void bc_diag_free(bc_diag *d);                 /* frees every item; d can be re-initialised */
+/* Appends one message (printf format).  Returns 1 if the error limit is now reached. */
+int bc_diag_add(bc_diag *d, bc_severity sev, const char *file, int32_t line, int32_t col,
+                const char *fmt, ...) __attribute__((format(printf, 6, 7)));
+int bc_diag_full(const bc_diag *d);            /* 1 when max_errors errors are held */
+void bc_diag_print(const bc_diag *d, FILE *f); /* "file:line:col: error: message" lines */
+
+/* ------------------------------------------------------------------------ */
+/* Name tables                                                              */
+/* ------------------------------------------------------------------------ */
+
+#define BC_NAME_MAX 255
+
+/* Interned names with constant-time lookup; indices are dense from 0. */
+typedef struct bc_names bc_names;
+
+bc_names *bc_names_new(void);                                   /* empty table; NULL if out of memory */
+void bc_names_free(bc_names *t);                                /* NULL is allowed */
+int32_t bc_names_intern(bc_names *t, const char *s, size_t len); /* index of s, adding it if new; -1 on out of memory */
+int32_t bc_names_find(const bc_names *t, const char *s, size_t len); /* index of s, or -1 */
+const char *bc_names_get(const bc_names *t, int32_t i);         /* NUL-terminated name i */
+int32_t bc_names_count(const bc_names *t);                      /* number of names */
+/* New table with the names in the order perm[0], perm[1], ... (perm holds old indices). */
+bc_names *bc_names_permuted(const bc_names *t, const int32_t *perm);
+
+/* ------------------------------------------------------------------------ */
+/* The model                                                                */
+/* ------------------------------------------------------------------------ */
+
+typedef enum { BC_MAX = 0, BC_MIN = 1 } bc_objective;
+
+/* A finite MDP in compressed sparse rows over state-action pairs.
+ * Invariants (checked by bc_model_check_invariants):
+ *  - pairs of state s are state_pair_start[s] .. state_pair_start[s+1]-1,
+ *    contiguous and in increasing action index; terminal states have none and
+ *    every other state has at least one;
+ *  - successors of pair p are pair_trans_start[p] .. pair_trans_start[p+1]-1,
+ *    in the order written; a successor may repeat;
+ *  - prob_exact of one pair sums to exactly 1; prob is its double image;
+ *  - reward[p] = reward_exact[p] + sum_t prob[t] * outcome_exact[t] (doubles). */
+typedef struct bc_model {
+    char *name;
+    int32_t n_states;
+    int32_t n_actions;
+    int64_t n_pairs;
+    int64_t n_trans;
+    double discount;          /* 0 < discount <= 1 */
+    bc_num discount_exact;
+    bc_objective objective;
+    int32_t horizon;          /* number of decisions; 0 = infinite horizon */
+
+    bc_names *state_names;    /* n_states names */
+    bc_names *action_names;   /* n_actions names */
+
+    int64_t *state_pair_start; /* [n_states + 1] */
+    int32_t *pair_state;       /* [n_pairs] */
+    int32_t *pair_action;      /* [n_pairs] */
+    int64_t *pair_trans_start; /* [n_pairs + 1] */
+    int32_t *succ_state;       /* [n_trans] */
+    double *prob;              /* [n_trans] */
+    double *reward;            /* [n_pairs] expected immediate reward */
+
+    bc_num *prob_exact;        /* [n_trans] */
+    bc_num *reward_exact;      /* [n_pairs] the REWARD column as written */
+    bc_num *outcome_exact;     /* [n_trans] extra reward of each outcome; NULL when all are zero */
+    int32_t *pair_line;        /* [n_pairs] source line of the pair; NULL when not from a text file */
+
+    uint8_t *terminal;         /* [n_states] 1 for absorbing states */
+    double *initial;           /* [n_states] initial distribution */
+    bc_num *initial_exact;     /* [n_states] */
+    int initial_given;         /* 1 if the source stated `initial` */
+
+    int32_t n_renormalised;    /* pairs whose probabilities were renormalised on reading */
+    int32_t *renormalised_lines; /* [n_renormalised] their source lines (0 if unknown) */
+
+    bc_bigtab *big;            /* big rationals referenced by the bc_num fields */
+} bc_model;
+
+/* Allocates a model with every array sized for the given counts and zeroed
+ * (outcome_exact and pair_line left NULL).  NULL if out of memory. */
+bc_model *bc_model_alloc(int32_t n_states, int32_t n_actions, int64_t n_pairs, int64_t n_trans);
+void bc_model_free(bc_model *m);                 /* frees everything; NULL is allowed */
+/* Returns NULL when the invariants hold, else a static description of the first violation. */
+const char *bc_model_check_invariants(const bc_model *m);
+/* Exact expected reward of pair p (base reward plus outcome rewards) into an initialised mpq_t. */
+void bc_model_reward_mpq(const bc_model *m, int64_t p, mpq_t out);
+/* Index of the pair of state s with action a, or -1. */
+int64_t bc_model_find_pair(const bc_model *m, int32_t s, int32_t a);
+/* sum_s initial[s] * v[s]. */
+double bc_model_initial_value(const bc_model *m, const double *v);
+
+/* ------------------------------------------------------------------------ */
+/* Building a model (used by every reader)                                  */
+/* ------------------------------------------------------------------------ */
+
+/* Accumulates directives and transition lines in any order, then sorts them
+ * into a bc_model and runs the format's checks (dead ends, duplicates,
+ * declared orders, probability sums).  Every call takes the source position
+ * (line, col; 0 if unknown) used in its messages. */
+typedef struct bc_builder bc_builder;
+
+/* A position in a source: 1-based line and column, or 0 when not known.
+ * `path` is a JSON-path-like location for sources without lines (may be NULL). */
+typedef struct {
+    int32_t line;
+    int32_t col;
+    const char *path;
+} bc_pos;
+
+bc_builder *bc_builder_new(const char *file_label, bc_diag *d); /* NULL if out of memory */
+void bc_builder_free(bc_builder *b);                            /* discards everything */
+bc_bigtab *bc_builder_bigtab(bc_builder *b);                     /* where parsed numbers must live */
+int32_t bc_builder_state(bc_builder *b, const char *name, size_t len, bc_pos at);  /* state index (interned); -1 on error */
+int32_t bc_builder_action(bc_builder *b, const char *name, size_t len, bc_pos at); /* action index (interned); -1 on error */
+/* Directives: each returns 0, or -1 after reporting the problem (repeated directive, bad value). */
+int bc_builder_name(bc_builder *b, const char *text, size_t len, bc_pos at);
+int bc_builder_discount(bc_builder *b, bc_num g, bc_pos at);
+int bc_builder_objective(bc_builder *b, bc_objective o, bc_pos at);
+int bc_builder_horizon(bc_builder *b, bc_num h, bc_pos at);
+/* `states`, `actions`, `terminal`: call begin, then add each name, then end. */
+int bc_builder_states_begin(bc_builder *b, bc_pos at);
+int bc_builder_actions_begin(bc_builder *b, bc_pos at);
+int bc_builder_terminal_begin(bc_builder *b, bc_pos at);
+int bc_builder_list_add(bc_builder *b, const char *name, size_t len, bc_pos at);
+int bc_builder_list_end(bc_builder *b, bc_pos at);
+/* `initial`: begin, then (state, probability or NULL for "alone, probability 1"), then end. */
+int bc_builder_initial_begin(bc_builder *b, bc_pos at);
+int bc_builder_initial_add(bc_builder *b, const char *name, size_t len, const bc_num *p, bc_pos at);
+int bc_builder_initial_end(bc_builder *b, bc_pos at);
+/* A transition line: begin, then each successor (prob NULL = "lone successor,
+ * probability 1"; outcome NULL = no outcome reward), then end, which checks
+ * and if needed renormalises the probabilities. */
+int bc_builder_pair_begin(bc_builder *b, const char *state, size_t slen, bc_pos state_at,
+                          const char *action, size_t alen, bc_pos action_at, bc_num reward);
+int bc_builder_succ(bc_builder *b, const char *name, size_t len, const bc_num *prob,
+                    const bc_num *outcome, bc_pos at);
+int bc_builder_pair_end(bc_builder *b, bc_pos at);
+void bc_builder_pair_cancel(bc_builder *b); /* drops the open line (after an error was reported) */
+/* Sorts, checks and returns the model (NULL if any error was reported);
+ * the builder is freed in both cases.  default_name NULL: the file label's
+ * base name without its extension. */
+bc_model *bc_builder_finish(bc_builder *b, const char *default_name);
+
+/* ------------------------------------------------------------------------ */
+/* Readers and writers (formats/)                                           */
+/* ------------------------------------------------------------------------ */
+
+/* Reads a whole file ("-" = standard input) into a NUL-terminated buffer.
+ * Returns 0, or -1 after reporting the problem in d. */
+int bc_read_file(const char *path, char **buf, size_t *len, bc_diag *d);
+/* Reads a .bell text model from buf[0..len); file_label names it in messages. NULL on error. */
+bc_model *bc_read_bell_text(const char *buf, size_t len, const char *file_label, bc_diag *d);
+/* Reads the JSON form of a model from buf[0..len). NULL on error. */
+bc_model *bc_read_bell_json(const char *buf, size_t len, const char *file_label, bc_diag *d);
+/* Reads a model file ("-" = standard input), text or JSON by its first non-blank byte. NULL on error. */
+bc_model *bc_read_model(const char *path, bc_diag *d);
+/* Writes m in the .bell text format; returns 0 or -1 on a write error. */
+int bc_write_bell_text(const bc_model *m, FILE *f);
+/* Writes m in the JSON form; returns 0 or -1 on a write error. */
+int bc_write_bell_json(const bc_model *m, FILE *f);
+
+/* Output files that appear only when complete: written to a temporary file
+ * beside the target, renamed into place by bc_out_commit. */
+typedef struct {
+    FILE *f;
+    char *path;     /* target path; NULL for standard output */
+    char *tmp_path; /* temporary path; NULL for standard output */
+} bc_out;
+
+int bc_out_open(bc_out *o, const char *path, bc_diag *d); /* "-" = standard output; 0 or -1 */
+int bc_out_commit(bc_out *o, bc_diag *d);                 /* flush, close, rename; 0 or -1 (then nothing is left) */
+void bc_out_abort(bc_out *o);                             /* close and delete the temporary file */
+
+/* ------------------------------------------------------------------------ */
+/* Solvers (solvers/)                                                       */
+/* ------------------------------------------------------------------------ */
+
+typedef enum { BC_METHOD_AUTO = 0, BC_METHOD_VI, BC_METHOD_PI, BC_METHOD_LP, BC_METHOD_BACKWARD } bc_method;
+
+const char *bc_method_name(bc_method m);            /* "vi", "pi", "lp", "backward", "auto" */
+int bc_method_parse(const char *s, bc_method *out); /* 0, or -1 for an unknown name */
+
+typedef struct {
+    double tol;          /* wanted bound on max_s |V(s) - V*(s)|; default 1e-9 */
+    int64_t max_iter;    /* sweeps (vi) or improvement steps (pi); 0 = default */
+    double max_seconds;  /* 0 = no limit */
+    int threads;         /* 0 = default */
+} bc_solve_opts;
+
+void bc_solve_opts_default(bc_solve_opts *o); /* fills the defaults above */
+
+/* Status of a solve. */
+typedef enum {
+    BC_SOLVE_OK = 0,
+    BC_SOLVE_NOT_CONVERGED = 1, /* limit reached; values hold the last iterate */
+    BC_SOLVE_FAILED = 2,        /* numerical or library failure; message says why */
+    BC_SOLVE_NOMEM = 3
+} bc_solve_status;
+
+typedef struct {
+    bc_method method;
+    bc_solve_status status;
+    double *values;         /* [n_states] value of each state (stage 0 with a horizon) */
+    int64_t *policy;        /* [n_states] chosen pair (stage 0 with a horizon); -1 for terminal states */
+    int64_t *stage_policy;  /* [horizon * n_states] pair per stage and state, or NULL */
+    double value_initial;   /* sum_s initial[s] * values[s] */
+    double bound;           /* proven bound on max_s |values[s] - V*(s)|, or -1 if none is proven */
+    int64_t iterations;
+    double seconds;
+    char message[256];      /* what happened, in one line */
+} bc_solution;
+
+void bc_solution_init(bc_solution *sol);  /* zeroes everything, bound -1 */
+void bc_solution_free(bc_solution *sol);  /* frees the arrays; sol can be re-initialised */
+
+/* Each solver fills sol (allocating its arrays) and returns its status.
+ * The model must satisfy its invariants; objective min is handled inside. */
+bc_solve_status bc_solve_vi(const bc_model *m, const bc_solve_opts *o, bc_solution *sol);
+bc_solve_status bc_solve_pi(const bc_model *m, const bc_solve_opts *o, bc_solution *sol);
+bc_solve_status bc_solve_lp(const bc_model *m, const bc_solve_opts *o, bc_solution *sol);
+bc_solve_status bc_solve_backward(const bc_model *m, const bc_solve_opts *o, bc_solution *sol);
+/* Picks the method (auto: the fastest that certifies its answer for m) and solves. */
+bc_solve_status bc_solve(const bc_model *m, bc_method method, const bc_solve_opts *o, bc_solution *sol);
+/* The method bc_solve would use for m under BC_METHOD_AUTO. */
+bc_method bc_solve_auto_method(const bc_model *m);
+
+/* ------------------------------------------------------------------------ */
+/* Analyses (src/)                                                          */
+/* ------------------------------------------------------------------------ */
+
+/* Structural findings of `check`. Arrays are owned by the struct. */
+typedef struct {
+    int32_t n_terminal;
+    int32_t n_unreachable;      /* not reachable from the initial distribution */
+    int32_t *unreachable;
+    int32_t n_no_exit;          /* discount 1: no policy reaches a terminal state with probability 1 */
+    int32_t *no_exit;
+    int32_t n_zero_cycle_states;/* discount 1: states on a cycle of zero-reward pairs */
+    int32_t *zero_cycle_states;
+} bc_findings;
+
+/* Computes the findings of m; 0, or -1 if out of memory. */
+int bc_analyse(const bc_model *m, bc_findings *f);
+void bc_findings_free(bc_findings *f);  /* frees the arrays */
+
+#ifdef __cplusplus
+}
+#endif
+
+#endif /* BELLCHECK_H */

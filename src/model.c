@@ -1,0 +1,175 @@
+/* model.c — the model in compressed sparse rows: allocation, invariants and small accessors. */
+/* SPDX-License-Identifier: GPL-3.0-or-later */
+#include "bellcheck.h"
+
+#include <stdlib.h>
+#include <string.h>
+
+/* calloc of n elements of size sz, refusing sizes that overflow size_t. */
+static void *alloc_array(int64_t n, size_t sz)
+{
+    if (n < 0 || (uint64_t)n > SIZE_MAX / sz)
+        return NULL;
+    return calloc(n ? (size_t)n : 1, sz);
+}
+
+bc_model *bc_model_alloc(int32_t n_states, int32_t n_actions, int64_t n_pairs, int64_t n_trans)
+{
+    if (n_states < 0 || n_actions < 0 || n_pairs < 0 || n_trans < 0)
+        return NULL;
+    bc_model *m = calloc(1, sizeof *m);
+    if (!m)
+        return NULL;
+    m->n_states = n_states;
+    m->n_actions = n_actions;
+    m->n_pairs = n_pairs;
+    m->n_trans = n_trans;
+    m->discount = 1;
+    m->discount_exact = bc_num_int(1);
+    m->state_pair_start = alloc_array((int64_t)n_states + 1, sizeof(int64_t));
+    m->pair_state = alloc_array(n_pairs, sizeof(int32_t));
+    m->pair_action = alloc_array(n_pairs, sizeof(int32_t));
+    m->pair_trans_start = alloc_array(n_pairs + 1, sizeof(int64_t));
+    m->succ_state = alloc_array(n_trans, sizeof(int32_t));
+    m->prob = alloc_array(n_trans, sizeof(double));
+    m->reward = alloc_array(n_pairs, sizeof(double));
+    m->prob_exact = alloc_array(n_trans, sizeof(bc_num));
+    m->reward_exact = alloc_array(n_pairs, sizeof(bc_num));
+    m->terminal = alloc_array(n_states, sizeof(uint8_t));
+    m->initial = alloc_array(n_states, sizeof(double));
+    m->initial_exact = alloc_array(n_states, sizeof(bc_num));
+    m->big = bc_bigtab_new();
+    if (!m->state_pair_start || !m->pair_state || !m->pair_action || !m->pair_trans_start ||
+        !m->succ_state || !m->prob || !m->reward || !m->prob_exact || !m->reward_exact ||
+        !m->terminal || !m->initial || !m->initial_exact || !m->big) {
+        bc_model_free(m);
+        return NULL;
+    }
+    for (int32_t s = 0; s < n_states; s++)
+        m->initial_exact[s].den = 1; /* zero, canonically */
+    for (int64_t p = 0; p < n_pairs; p++)
+        m->reward_exact[p].den = 1;
+    for (int64_t t = 0; t < n_trans; t++)
+        m->prob_exact[t].den = 1;
+    return m;
+}
+
+void bc_model_free(bc_model *m)
+{
+    if (!m)
+        return;
+    free(m->name);
+    bc_names_free(m->state_names);
+    bc_names_free(m->action_names);
+    free(m->state_pair_start);
+    free(m->pair_state);
+    free(m->pair_action);
+    free(m->pair_trans_start);
+    free(m->succ_state);
+    free(m->prob);
+    free(m->reward);
+    free(m->prob_exact);
+    free(m->reward_exact);
+    free(m->outcome_exact);
+    free(m->pair_line);
+    free(m->terminal);
+    free(m->initial);
+    free(m->initial_exact);
+    free(m->renormalised_lines);
+    bc_bigtab_free(m->big);
+    free(m);
+}
+
+static const char *check_pairs(const bc_model *m)
+{
+    if (m->state_pair_start[0] != 0 || m->state_pair_start[m->n_states] != m->n_pairs)
+        return "state_pair_start does not span the pairs";
+    for (int32_t s = 0; s < m->n_states; s++) {
+        int64_t a = m->state_pair_start[s], b = m->state_pair_start[s + 1];
+        if (b < a)
+            return "state_pair_start is not monotone";
+        if (m->terminal[s] ? b != a : b == a)
+            return "a terminal state has pairs, or a non-terminal state has none";
+        for (int64_t p = a; p < b; p++) {
+            if (m->pair_state[p] != s)
+                return "pair_state disagrees with state_pair_start";
+            if (m->pair_action[p] < 0 || m->pair_action[p] >= m->n_actions)
+                return "pair_action out of range";
+            if (p > a && m->pair_action[p] <= m->pair_action[p - 1])
+                return "pairs of a state are not in increasing action order";
+        }
+    }
+    return NULL;
+}
+
+const char *bc_model_check_invariants(const bc_model *m)
+{
+    if (!(m->discount > 0 && m->discount <= 1))
+        return "discount outside (0, 1]";
+    const char *why = check_pairs(m);
+    if (why)
+        return why;
+    if (m->pair_trans_start[0] != 0 || m->pair_trans_start[m->n_pairs] != m->n_trans)
+        return "pair_trans_start does not span the transitions";
+    for (int64_t p = 0; p < m->n_pairs; p++) {
+        int64_t a = m->pair_trans_start[p], b = m->pair_trans_start[p + 1];
+        if (b <= a)
+            return "a pair has no successor";
+        double sum = 0;
+        for (int64_t t = a; t < b; t++) {
+            if (m->succ_state[t] < 0 || m->succ_state[t] >= m->n_states)
+                return "succ_state out of range";
+            if (!(m->prob[t] >= 0))
+                return "a negative or NaN probability";
+            sum += m->prob[t];
+        }
+        if (sum < 1 - 1e-9 || sum > 1 + 1e-9)
+            return "the probabilities of a pair do not sum to 1";
+    }
+    return NULL;
+}
+
+void bc_model_reward_mpq(const bc_model *m, int64_t p, mpq_t out)
+{
+    bc_num_to_mpq(out, m->reward_exact[p], m->big);
+    if (!m->outcome_exact)
+        return;
+    mpq_t o, pr;
+    mpq_init(o);
+    mpq_init(pr);
+    for (int64_t t = m->pair_trans_start[p]; t < m->pair_trans_start[p + 1]; t++) {
+        if (bc_num_sign(m->outcome_exact[t], m->big) == 0)
+            continue;
+        bc_num_to_mpq(o, m->outcome_exact[t], m->big);
+        bc_num_to_mpq(pr, m->prob_exact[t], m->big);
+        mpq_mul(o, o, pr);
+        mpq_add(out, out, o);
+    }
+    mpq_clear(o);
+    mpq_clear(pr);
+}
+
+int64_t bc_model_find_pair(const bc_model *m, int32_t s, int32_t a)
+{
+    if (s < 0 || s >= m->n_states)
+        return -1;
+    /* Pairs of a state are sorted by action: binary search. */
+    int64_t lo = m->state_pair_start[s], hi = m->state_pair_start[s + 1];
+    while (lo < hi) {
+        int64_t mid = lo + (hi - lo) / 2;
+        if (m->pair_action[mid] < a)
+            lo = mid + 1;
+        else
+            hi = mid;
+    }
+    return lo < m->state_pair_start[s + 1] && m->pair_action[lo] == a ? lo : -1;
+}
+
+double bc_model_initial_value(const bc_model *m, const double *v)
+{
+    double sum = 0;
+    for (int32_t s = 0; s < m->n_states; s++)
+        if (m->initial[s] != 0)
+            sum += m->initial[s] * v[s];
+    return sum;
+}

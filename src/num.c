@@ -1,0 +1,608 @@
+/* num.c — exact rational numbers: a 64-bit fast path, GMP for everything that does not fit. */
+/*
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Most numbers in a model are small decimals (0.95, 1/10, -2), so a bc_num
+ * keeps num/den in two int64 and does arithmetic in 128-bit integers.  Only
+ * when a result does not fit does it move into the bc_bigtab as an mpq_t.
+ * Invariant: a small bc_num is in lowest terms with den > 0, and a value is
+ * stored big only if it cannot be small — so equal values have equal
+ * representations unless one of them is big (comparisons go through bc_num_cmp).
+ */
+#include "bellcheck.h"
+
+#include <assert.h>
+#include <errno.h>
+#include <stdlib.h>
+#include <string.h>
+
+struct bc_bigtab {
+    mpq_t *v;
+    size_t n, cap;
+};
+
+typedef __int128 i128;
+typedef unsigned __int128 u128;
+
+bc_bigtab *bc_bigtab_new(void)
+{
+    return calloc(1, sizeof(bc_bigtab));
+}
+
+void bc_bigtab_free(bc_bigtab *big)
+{
+    if (!big)
+        return;
+    for (size_t i = 0; i < big->n; i++)
+        mpq_clear(big->v[i]);
+    free(big->v);
+    free(big);
+}
+
+size_t bc_bigtab_count(const bc_bigtab *big)
+{
+    return big ? big->n : 0;
+}
+
+/* Moves x (canonical) into the table; returns its index or -1. */
+static int64_t bigtab_push(bc_bigtab *big, const mpq_t x)
+{
+    if (!big)
+        return -1;
+    if (big->n == big->cap) {
+        size_t cap = big->cap ? 2 * big->cap : 16;
+        mpq_t *v = realloc(big->v, cap * sizeof(mpq_t));
+        if (!v)
+            return -1;
+        big->v = v;
+        big->cap = cap;
+    }
+    mpq_init(big->v[big->n]);
+    mpq_set(big->v[big->n], x);
+    return (int64_t)big->n++;
+}
+
+static const mpq_t *big_at(const bc_bigtab *big, bc_num x)
+{
+    assert(x.den == 0 && big && x.num >= 0 && (size_t)x.num < big->n);
+    return (const mpq_t *)&big->v[x.num];
+}
+
+bc_num bc_num_int(int64_t v)
+{
+    bc_num r = {v, 1};
+    return r;
+}
+
+static u128 gcd_u128(u128 a, u128 b)
+{
+    while (b) {
+        u128 t = a % b;
+        a = b;
+        b = t;
+    }
+    return a;
+}
+
+static void mpz_set_i128(mpz_t z, i128 v)
+{
+    int neg = v < 0;
+    u128 u = neg ? -(u128)v : (u128)v;
+    mpz_set_ui(z, (unsigned long)(uint64_t)(u >> 64));
+    mpz_mul_2exp(z, z, 64);
+    mpz_add_ui(z, z, (unsigned long)(uint64_t)u);
+    if (neg)
+        mpz_neg(z, z);
+}
+
+/* Canonical bc_num of n/d (d != 0), big if it does not fit; -1 on failure. */
+static int num_from_i128(i128 n, i128 d, bc_num *out, bc_bigtab *big)
+{
+    assert(d != 0);
+    if (d < 0) {
+        n = -n;
+        d = -d;
+    }
+    u128 g = gcd_u128(n < 0 ? -(u128)n : (u128)n, (u128)d);
+    if (g > 1) {
+        n /= (i128)g;
+        d /= (i128)g;
+    }
+    if (n >= INT64_MIN && n <= INT64_MAX && d <= INT64_MAX) {
+        out->num = (int64_t)n;
+        out->den = (int64_t)d;
+        return 0;
+    }
+    mpq_t q;
+    mpq_init(q);
+    mpz_set_i128(mpq_numref(q), n);
+    mpz_set_i128(mpq_denref(q), d);
+    int64_t i = bigtab_push(big, q);
+    mpq_clear(q);
+    if (i < 0)
+        return -1;
+    out->num = i;
+    out->den = 0;
+    return 0;
+}
+
+int bc_num_from_mpq(bc_num *out, const mpq_t x, bc_bigtab *big)
+{
+    if (mpz_fits_slong_p(mpq_numref(x)) && mpz_fits_slong_p(mpq_denref(x))) {
+        out->num = mpz_get_si(mpq_numref(x));
+        out->den = mpz_get_si(mpq_denref(x));
+        return 0;
+    }
+    int64_t i = bigtab_push(big, x);
+    if (i < 0)
+        return -1;
+    out->num = i;
+    out->den = 0;
+    return 0;
+}
+
+void bc_num_to_mpq(mpq_t out, bc_num x, const bc_bigtab *big)
+{
+    if (x.den == 0) {
+        mpq_set(out, *big_at(big, x));
+        return;
+    }
+    mpz_set_si(mpq_numref(out), x.num);
+    mpz_set_si(mpq_denref(out), x.den);
+}
+
+double bc_num_to_double(bc_num x, const bc_bigtab *big)
+{
+    const int64_t exact = (int64_t)1 << 53;
+    if (x.den != 0 && x.num > -exact && x.num < exact && x.den < exact)
+        return (double)x.num / (double)x.den; /* both exact, one correctly rounded division */
+    mpq_t q;
+    mpq_init(q);
+    bc_num_to_mpq(q, x, big);
+    double r = mpq_get_d(q);
+    mpq_clear(q);
+    return r;
+}
+
+/* Exact binary operation through GMP, for operands or results that are big. */
+static int num_op_big(char op, bc_num a, bc_num b, bc_num *out, bc_bigtab *big)
+{
+    mpq_t x, y;
+    mpq_init(x);
+    mpq_init(y);
+    bc_num_to_mpq(x, a, big);
+    bc_num_to_mpq(y, b, big);
+    if (op == '+')
+        mpq_add(x, x, y);
+    else if (op == '*')
+        mpq_mul(x, x, y);
+    else
+        mpq_div(x, x, y);
+    int rc = bc_num_from_mpq(out, x, big);
+    mpq_clear(x);
+    mpq_clear(y);
+    return rc;
+}
+
+int bc_num_add(bc_num a, bc_num b, bc_num *out, bc_bigtab *big)
+{
+    if (a.den == 0 || b.den == 0)
+        return num_op_big('+', a, b, out, big);
+    /* |num| < 2^63, den < 2^63: products < 2^126, the sum < 2^127 — no overflow. */
+    i128 n = (i128)a.num * b.den + (i128)b.num * a.den;
+    i128 d = (i128)a.den * b.den;
+    return num_from_i128(n, d, out, big);
+}
+
+int bc_num_mul(bc_num a, bc_num b, bc_num *out, bc_bigtab *big)
+{
+    if (a.den == 0 || b.den == 0)
+        return num_op_big('*', a, b, out, big);
+    return num_from_i128((i128)a.num * b.num, (i128)a.den * b.den, out, big);
+}
+
+int bc_num_div(bc_num a, bc_num b, bc_num *out, bc_bigtab *big)
+{
+    if (bc_num_sign(b, big) == 0)
+        return -1;
+    if (a.den == 0 || b.den == 0)
+        return num_op_big('/', a, b, out, big);
+    return num_from_i128((i128)a.num * b.den, (i128)a.den * b.num, out, big);
+}
+
+int bc_num_cmp(bc_num a, bc_num b, const bc_bigtab *big)
+{
+    if (a.den != 0 && b.den != 0) {
+        i128 l = (i128)a.num * b.den, r = (i128)b.num * a.den;
+        return (l > r) - (l < r);
+    }
+    mpq_t x, y;
+    mpq_init(x);
+    mpq_init(y);
+    bc_num_to_mpq(x, a, big);
+    bc_num_to_mpq(y, b, big);
+    int c = mpq_cmp(x, y);
+    mpq_clear(x);
+    mpq_clear(y);
+    return (c > 0) - (c < 0);
+}
+
+int bc_num_sign(bc_num x, const bc_bigtab *big)
+{
+    if (x.den != 0)
+        return (x.num > 0) - (x.num < 0);
+    return mpq_sgn(*big_at(big, x));
+}
+
+int bc_num_is_one(bc_num x, const bc_bigtab *big)
+{
+    (void)big; /* 1 always fits the small form, and small form is canonical */
+    return x.den == 1 && x.num == 1;
+}
+
+/* ---- parsing ------------------------------------------------------------ */
+
+/* Scans [+-]?digits at s[*i]; returns the digit count (0 = none) and leaves *i after them. */
+static size_t scan_int(const char *s, size_t len, size_t *i, int allow_sign)
+{
+    if (allow_sign && *i < len && (s[*i] == '+' || s[*i] == '-'))
+        (*i)++;
+    size_t start = *i;
+    while (*i < len && s[*i] >= '0' && s[*i] <= '9')
+        (*i)++;
+    return *i - start;
+}
+
+/* Slow path: builds the exact value with GMP from the pieces of a decimal. */
+static int parse_decimal_big(const char *s, size_t len, size_t int_start, size_t int_end,
+                             size_t frac_start, size_t frac_end, long exp10, int neg,
+                             bc_num *out, bc_bigtab *big)
+{
+    (void)len;
+    size_t nd = (int_end - int_start) + (frac_end - frac_start);
+    char *digits = malloc(nd + 2);
+    if (!digits)
+        return -1;
+    memcpy(digits, s + int_start, int_end - int_start);
+    memcpy(digits + (int_end - int_start), s + frac_start, frac_end - frac_start);
+    digits[nd] = 0;
+    mpq_t q;
+    mpq_init(q);
+    mpz_set_str(mpq_numref(q), nd ? digits : "0", 10);
+    free(digits);
+    long e = exp10 - (long)(frac_end - frac_start);
+    mpz_t p;
+    mpz_init(p);
+    mpz_ui_pow_ui(p, 10, (unsigned long)(e < 0 ? -e : e));
+    if (e >= 0)
+        mpz_mul(mpq_numref(q), mpq_numref(q), p);
+    else
+        mpz_set(mpq_denref(q), p);
+    mpz_clear(p);
+    mpq_canonicalize(q);
+    if (neg)
+        mpq_neg(q, q);
+    int rc = bc_num_from_mpq(out, q, big);
+    mpq_clear(q);
+    return rc;
+}
+
+static const uint64_t pow10_u64[20] = {
+    1ULL, 10ULL, 100ULL, 1000ULL, 10000ULL, 100000ULL, 1000000ULL, 10000000ULL,
+    100000000ULL, 1000000000ULL, 10000000000ULL, 100000000000ULL, 1000000000000ULL,
+    10000000000000ULL, 100000000000000ULL, 1000000000000000ULL, 10000000000000000ULL,
+    100000000000000000ULL, 1000000000000000000ULL, 10000000000000000000ULL};
+
+/* Parses "p/q" exactly (the caller has checked that p is an integer followed by '/'). */
+static int parse_fraction(const char *s, size_t len, bc_num *out, bc_bigtab *big,
+                          const char **why)
+{
+    size_t i = 0;
+    int neg = s[0] == '-';
+    size_t nstart = (s[0] == '+' || s[0] == '-') ? 1 : 0;
+    size_t nlen = scan_int(s, len, &i, 1);
+    size_t slash = i;
+    i++; /* the '/' */
+    size_t dstart = i;
+    size_t dlen = scan_int(s, len, &i, 0);
+    if (dlen == 0 || i != len) {
+        *why = "a fraction is two integers separated by '/', like 9/10";
+        return -1;
+    }
+    if (nlen > BC_NUM_MAX_DIGITS || dlen > BC_NUM_MAX_DIGITS) {
+        *why = "a number has more than 4096 digits";
+        return -1;
+    }
+    mpq_t q;
+    mpq_init(q);
+    char *tmp = malloc(len + 1);
+    if (!tmp) {
+        mpq_clear(q);
+        *why = "out of memory";
+        return -1;
+    }
+    memcpy(tmp, s + nstart, slash - nstart);
+    tmp[slash - nstart] = 0;
+    mpz_set_str(mpq_numref(q), tmp, 10);
+    memcpy(tmp, s + dstart, dlen);
+    tmp[dlen] = 0;
+    mpz_set_str(mpq_denref(q), tmp, 10);
+    free(tmp);
+    if (mpz_sgn(mpq_denref(q)) == 0) {
+        mpq_clear(q);
+        *why = "the denominator of a fraction is zero";
+        return -1;
+    }
+    mpq_canonicalize(q);
+    if (neg)
+        mpq_neg(q, q);
+    int rc = bc_num_from_mpq(out, q, big);
+    mpq_clear(q);
+    if (rc < 0)
+        *why = "out of memory";
+    return rc;
+}
+
+int bc_num_parse(const char *s, size_t len, bc_num *out, bc_bigtab *big, const char **why)
+{
+    static const char *bad = "expected a number: an integer, a decimal like 0.125 or 1e-3, "
+                             "or a fraction like 9/10";
+    if (len == 0) {
+        *why = bad;
+        return -1;
+    }
+    if (memchr(s, '/', len)) {
+        size_t i = 0, n = scan_int(s, len, &i, 1);
+        if (n == 0 || i >= len || s[i] != '/') {
+            *why = bad;
+            return -1;
+        }
+        return parse_fraction(s, len, out, big, why);
+    }
+    size_t i = 0;
+    int neg = s[0] == '-';
+    if (s[0] == '+' || s[0] == '-')
+        i++;
+    size_t int_start = i, int_n = scan_int(s, len, &i, 0), int_end = i;
+    size_t frac_start = i, frac_end = i;
+    if (int_n == 0) {
+        *why = bad;
+        return -1;
+    }
+    if (i < len && s[i] == '.') {
+        i++;
+        frac_start = i;
+        if (scan_int(s, len, &i, 0) == 0) {
+            *why = "expected digits after the decimal point";
+            return -1;
+        }
+        frac_end = i;
+    }
+    long exp10 = 0;
+    if (i < len && (s[i] == 'e' || s[i] == 'E')) {
+        i++;
+        int eneg = i < len && s[i] == '-';
+        if (i < len && (s[i] == '+' || s[i] == '-'))
+            i++;
+        size_t estart = i;
+        if (scan_int(s, len, &i, 0) == 0) {
+            *why = "expected digits in the exponent";
+            return -1;
+        }
+        for (size_t k = estart; k < i; k++) {
+            exp10 = exp10 * 10 + (s[k] - '0');
+            if (exp10 > BC_NUM_MAX_EXPONENT) {
+                *why = "exponent out of range (at most 4096 in absolute value)";
+                return -1;
+            }
+        }
+        if (eneg)
+            exp10 = -exp10;
+    }
+    if (i != len) {
+        *why = bad;
+        return -1;
+    }
+    /* Skip leading zeros so that 0.000001 stays on the fast path. */
+    size_t lead = int_start;
+    while (lead < int_end && s[lead] == '0')
+        lead++;
+    size_t ndig = (int_end - lead) + (frac_end - frac_start);
+    if (ndig > BC_NUM_MAX_DIGITS) {
+        *why = "a number has more than 4096 digits";
+        return -1;
+    }
+    long e = exp10 - (long)(frac_end - frac_start);
+    if (ndig <= 18 && e >= -18 && e <= 18) {
+        uint64_t mant = 0;
+        for (size_t k = lead; k < int_end; k++)
+            mant = mant * 10 + (uint64_t)(s[k] - '0');
+        for (size_t k = frac_start; k < frac_end; k++)
+            mant = mant * 10 + (uint64_t)(s[k] - '0');
+        i128 n = neg ? -(i128)mant : (i128)mant, d = 1;
+        if (e >= 0)
+            n *= (i128)pow10_u64[e];
+        else
+            d = (i128)pow10_u64[-e];
+        if (num_from_i128(n, d, out, big) < 0) {
+            *why = "out of memory";
+            return -1;
+        }
+        return 0;
+    }
+    if (parse_decimal_big(s, len, int_start, int_end, frac_start, frac_end, exp10, neg, out,
+                          big) < 0) {
+        *why = "out of memory";
+        return -1;
+    }
+    return 0;
+}
+
+/* ---- formatting --------------------------------------------------------- */
+
+/* Writes the decimal digits of u into buf (no NUL); returns the count. */
+static size_t u128_digits(u128 u, char *buf)
+{
+    char tmp[48];
+    size_t n = 0;
+    do {
+        tmp[n++] = (char)('0' + (int)(u % 10));
+        u /= 10;
+    } while (u);
+    for (size_t k = 0; k < n; k++)
+        buf[k] = tmp[n - 1 - k];
+    return n;
+}
+
+/* Small-form text of x into buf (at least 96 bytes); returns its length. */
+static size_t format_small(char *buf, bc_num x, int fraction_only)
+{
+    size_t n = 0;
+    u128 mag = x.num < 0 ? -(u128)(i128)x.num : (u128)x.num;
+    if (x.num < 0)
+        buf[n++] = '-';
+    if (x.den == 1) {
+        n += u128_digits(mag, buf + n);
+        return n;
+    }
+    /* den = 2^i 5^j with max(i, j) <= 18: mag / den = mag * (10^k / den) / 10^k. */
+    int64_t d = x.den;
+    int i2 = 0, i5 = 0;
+    while (d % 2 == 0) {
+        d /= 2;
+        i2++;
+    }
+    while (d % 5 == 0) {
+        d /= 5;
+        i5++;
+    }
+    int k = i2 > i5 ? i2 : i5;
+    if (fraction_only || d != 1 || k > 18) {
+        n += u128_digits(mag, buf + n);
+        buf[n++] = '/';
+        n += u128_digits((u128)x.den, buf + n);
+        return n;
+    }
+    u128 scaled = mag * (u128)(pow10_u64[k] / (uint64_t)x.den);
+    u128 p = pow10_u64[k];
+    n += u128_digits(scaled / p, buf + n);
+    buf[n++] = '.';
+    char frac[24];
+    size_t fn = u128_digits(scaled % p, frac);
+    for (size_t z = fn; z < (size_t)k; z++)
+        buf[n++] = '0';
+    memcpy(buf + n, frac, fn);
+    return n + fn;
+}
+
+/* Text of a big value; malloc'ed, NULL on failure. */
+static char *format_big(const mpq_t q, int fraction_only)
+{
+    /* Count the factors 2 and 5 of the denominator. */
+    mpz_t d, f;
+    mpz_init_set(d, mpq_denref(q));
+    mpz_init_set_ui(f, 2);
+    unsigned long n2 = mpz_remove(d, d, f);
+    mpz_set_ui(f, 5);
+    unsigned long n5 = mpz_remove(d, d, f);
+    unsigned long k = n2 > n5 ? n2 : n5;
+    int decimal = !fraction_only && mpz_cmp_ui(d, 1) == 0 && k <= 40;
+    char *out = NULL;
+    if (decimal) {
+        mpz_t scaled, p;
+        mpz_init(scaled);
+        mpz_init(p);
+        mpz_ui_pow_ui(p, 10, k);
+        mpz_divexact(scaled, p, mpq_denref(q));
+        mpz_mul(scaled, scaled, mpq_numref(q));
+        mpz_abs(scaled, scaled);
+        char *digits = mpz_get_str(NULL, 10, scaled);
+        size_t nd = strlen(digits);
+        out = malloc(nd + k + 4);
+        if (out) {
+            size_t n = 0;
+            if (mpq_sgn(q) < 0)
+                out[n++] = '-';
+            if (nd <= k) {
+                out[n++] = '0';
+                out[n++] = '.';
+                for (size_t z = nd; z < k; z++)
+                    out[n++] = '0';
+                memcpy(out + n, digits, nd);
+                n += nd;
+            } else {
+                memcpy(out + n, digits, nd - k);
+                n += nd - k;
+                if (k) {
+                    out[n++] = '.';
+                    memcpy(out + n, digits + nd - k, k);
+                    n += k;
+                }
+            }
+            out[n] = 0;
+        }
+        free(digits);
+        mpz_clear(scaled);
+        mpz_clear(p);
+    } else {
+        out = mpq_get_str(NULL, 10, q);
+    }
+    mpz_clear(d);
+    mpz_clear(f);
+    return out;
+}
+
+static size_t num_format_any(char *buf, size_t cap, bc_num x, const bc_bigtab *big,
+                             int fraction_only)
+{
+    if (x.den != 0) {
+        char tmp[96];
+        size_t n = format_small(tmp, x, fraction_only);
+        if (cap) {
+            size_t c = n < cap - 1 ? n : cap - 1;
+            memcpy(buf, tmp, c);
+            buf[c] = 0;
+        }
+        return n;
+    }
+    char *s = format_big(*big_at(big, x), fraction_only);
+    if (!s) {
+        if (cap)
+            buf[0] = 0;
+        return 0;
+    }
+    size_t n = strlen(s);
+    if (cap) {
+        size_t c = n < cap - 1 ? n : cap - 1;
+        memcpy(buf, s, c);
+        buf[c] = 0;
+    }
+    free(s);
+    return n;
+}
+
+size_t bc_num_format(char *buf, size_t cap, bc_num x, const bc_bigtab *big)
+{
+    return num_format_any(buf, cap, x, big, 0);
+}
+
+size_t bc_num_format_fraction(char *buf, size_t cap, bc_num x, const bc_bigtab *big)
+{
+    return num_format_any(buf, cap, x, big, 1);
+}
+
+int bc_num_write(FILE *f, bc_num x, const bc_bigtab *big)
+{
+    if (x.den != 0) {
+        char tmp[96];
+        size_t n = format_small(tmp, x, 0);
+        return fwrite(tmp, 1, n, f) == n ? (int)n : -1;
+    }
+    char *s = format_big(*big_at(big, x), 0);
+    if (!s)
+        return -1;
+    size_t n = strlen(s);
+    int rc = fwrite(s, 1, n, f) == n ? (int)n : -1;
+    free(s);
+    return rc;
+}
