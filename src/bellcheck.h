@@ -317,6 +317,26 @@ bc_solve_status bc_solve(const bc_model *m, bc_method method, const bc_solve_opt
 /* The method bc_solve would use for m under BC_METHOD_AUTO. */
 bc_method bc_solve_auto_method(const bc_model *m);
 
+/* Runs every applicable method (vi, pi, lp; backward induction alone for a
+ * finite horizon) and measures their largest disagreement. */
+#define BC_COMPARE_MAX 4
+typedef struct {
+    int n;                            /* methods run */
+    bc_solution sol[BC_COMPARE_MAX];
+    double max_disagreement;          /* max over method pairs and states of |V_i(s) - V_j(s)| */
+    double allowed;                   /* what their bounds allow for that pair */
+    int32_t worst_state;              /* where the largest excess (or disagreement) occurs; -1 if none */
+    int worst_i, worst_j;             /* the two methods behind it */
+    int agree;                        /* 1 when every pair agrees within its allowance */
+} bc_comparison;
+
+/* Allowance used when a method proves no bound: this, times max(1, max |V|). */
+#define BC_UNPROVEN_TOL 1e-6
+
+/* Solves m with every method; 0, or -1 if out of memory.  A failed method leaves agree = 0. */
+int bc_compare(const bc_model *m, const bc_solve_opts *o, bc_comparison *c);
+void bc_comparison_free(bc_comparison *c); /* frees every solution */
+
 /* ------------------------------------------------------------------------ */
 /* Analyses (src/)                                                          */
 /* ------------------------------------------------------------------------ */
@@ -335,6 +355,30 @@ typedef struct {
 /* Computes the findings of m; 0, or -1 if out of memory. */
 int bc_analyse(const bc_model *m, bc_findings *f);
 void bc_findings_free(bc_findings *f);  /* frees the arrays */
+
+/* ------------------------------------------------------------------------ */
+/* Reports (src/report_*.c): text for people, JSON for programs            */
+/* ------------------------------------------------------------------------ */
+
+/* Text report of `check`: summary and findings.  Returns 0 or -1 on a write error. */
+int bc_report_check_text(FILE *f, const bc_model *m, const bc_findings *fd, const char *source);
+/* JSON report of `check` (schema in docs/json-reports.md). */
+int bc_report_check_json(FILE *f, const bc_model *m, const bc_findings *fd, const char *source);
+/* 1 when the findings make the model unusable (an error), else 0. */
+int bc_findings_fatal(const bc_model *m, const bc_findings *fd);
+
+/* Text report of a solve; show_states = how many states of the policy to list. */
+int bc_report_solve_text(FILE *f, const bc_model *m, const bc_solution *sol, int32_t show_states);
+/* JSON report of a solve (schema in docs/json-reports.md). */
+int bc_report_solve_json(FILE *f, const bc_model *m, const bc_solution *sol);
+/* Text and JSON reports of --compare. */
+int bc_report_compare_text(FILE *f, const bc_model *m, const bc_comparison *c);
+int bc_report_compare_json(FILE *f, const bc_model *m, const bc_comparison *c);
+
+/* CSV `state,value` of a solution (values in the model's own sign). */
+int bc_write_values_csv(FILE *f, const bc_model *m, const bc_solution *sol);
+/* CSV `state,action` of a solution's policy (terminal states omitted). */
+int bc_write_policy_csv(FILE *f, const bc_model *m, const bc_solution *sol);
 
 #ifdef __cplusplus
 }

@@ -1,0 +1,209 @@
+/* cli_solve.c — `bellcheck solve MODEL`: solve by one method (or all, --compare) and report. */
+/* SPDX-License-Identifier: GPL-3.0-or-later */
+#define _GNU_SOURCE
+#include "cli.h"
+
+#include <getopt.h>
+#include <string.h>
+
+static const char help[] =
+    "usage: bellcheck solve MODEL [options]\n"
+    "Solves MODEL and prints the optimal value at the initial distribution, the bound\n"
+    "that is proven on it, and the optimal policy.\n\n"
+    "options:\n"
+    "  --method M        vi (Gauss-Seidel value iteration), pi (policy iteration),\n"
+    "                    lp (linear programming, GLPK) or auto (default: the fastest\n"
+    "                    method that proves its bound for this model)\n"
+    "  --compare         solve with every method; exit 3 if they disagree beyond\n"
+    "                    their bounds\n"
+    "  --tol X           wanted bound on the error of every value (default 1e-9)\n"
+    "  --max-iter N      limit on iterations / improvement steps\n"
+    "  --max-seconds S   limit on the solve time\n"
+    "  --show N          states listed in the text report (default 10)\n"
+    "  --values-out FILE write state,value as CSV\n"
+    "  --policy-out FILE write state,action as CSV\n\n" BC_CLI_COMMON_HELP;
+
+enum { OPT_METHOD = OPT_FIRST_COMMAND_OPTION, OPT_COMPARE, OPT_TOL, OPT_MAX_ITER, OPT_MAX_SECONDS,
+       OPT_SHOW, OPT_VALUES_OUT, OPT_POLICY_OUT };
+
+typedef struct {
+    bc_cli_common c;
+    bc_method method;
+    int compare;
+    bc_solve_opts o;
+    long long show;
+    const char *values_out, *policy_out, *path;
+} solve_args;
+
+static int parse_args(int argc, char **argv, solve_args *a)
+{
+    static const struct option longopts[] = {
+        BC_CLI_COMMON_LONGOPTS,
+        {"method", required_argument, NULL, OPT_METHOD},
+        {"compare", no_argument, NULL, OPT_COMPARE},
+        {"tol", required_argument, NULL, OPT_TOL},
+        {"max-iter", required_argument, NULL, OPT_MAX_ITER},
+        {"max-seconds", required_argument, NULL, OPT_MAX_SECONDS},
+        {"show", required_argument, NULL, OPT_SHOW},
+        {"values-out", required_argument, NULL, OPT_VALUES_OUT},
+        {"policy-out", required_argument, NULL, OPT_POLICY_OUT},
+        {NULL, 0, NULL, 0}};
+    long long v;
+    int id;
+    opterr = 0;
+    while ((id = getopt_long(argc, argv, "", longopts, NULL)) != -1) {
+        int r = bc_cli_common_option(&a->c, id, optarg);
+        if (r < 0)
+            return BC_EXIT_USAGE;
+        if (r > 0)
+            continue;
+        switch (id) {
+        case OPT_HELP: fputs(help, stdout); return -1;
+        case OPT_METHOD:
+            if (bc_method_parse(optarg, &a->method) < 0 || a->method == BC_METHOD_BACKWARD)
+                return bc_cli_usage_error("solve", "--method expects vi, pi, lp or auto, got '%s'", optarg);
+            break;
+        case OPT_COMPARE: a->compare = 1; break;
+        case OPT_TOL:
+            if (bc_cli_double("solve", "--tol", optarg, 1e-15, 1e6, &a->o.tol) < 0)
+                return BC_EXIT_USAGE;
+            break;
+        case OPT_MAX_ITER:
+            if (bc_cli_long("solve", "--max-iter", optarg, 1, INT64_MAX, &v) < 0)
+                return BC_EXIT_USAGE;
+            a->o.max_iter = v;
+            break;
+        case OPT_MAX_SECONDS:
+            if (bc_cli_double("solve", "--max-seconds", optarg, 1e-3, 1e9, &a->o.max_seconds) < 0)
+                return BC_EXIT_USAGE;
+            break;
+        case OPT_SHOW:
+            if (bc_cli_long("solve", "--show", optarg, 0, INT32_MAX, &a->show) < 0)
+                return BC_EXIT_USAGE;
+            break;
+        case OPT_VALUES_OUT: a->values_out = optarg; break;
+        case OPT_POLICY_OUT: a->policy_out = optarg; break;
+        default:
+            return bc_cli_usage_error("solve", "unknown or incomplete option '%s' (see --help)",
+                                      argv[optind - 1]);
+        }
+    }
+    if (optind != argc - 1)
+        return bc_cli_usage_error("solve", "expected one MODEL argument (see --help)");
+    if (a->compare && a->method != BC_METHOD_AUTO)
+        return bc_cli_usage_error("solve", "--compare runs every method; do not combine it with --method");
+    a->path = argv[optind];
+    return 0;
+}
+
+/* Writes one output file through a temporary; 0 or -1 (message printed). */
+static int write_output(const char *path, const bc_model *m, const bc_solution *sol,
+                        const bc_comparison *cmp, char kind)
+{
+    bc_diag d;
+    bc_diag_init(&d);
+    bc_out o;
+    int rc = -1;
+    if (bc_out_open(&o, path, &d) == 0) {
+        int w = kind == 'j' ? (cmp ? bc_report_compare_json(o.f, m, cmp) : bc_report_solve_json(o.f, m, sol))
+              : kind == 'v' ? bc_write_values_csv(o.f, m, sol)
+                            : bc_write_policy_csv(o.f, m, sol);
+        if (w < 0) {
+            bc_diag_add(&d, BC_ERROR, path, 0, 0, "write error");
+            bc_out_abort(&o);
+        } else if (bc_out_commit(&o, &d) == 0) {
+            rc = 0;
+        }
+    }
+    bc_diag_print(&d, stderr);
+    bc_diag_free(&d);
+    return rc;
+}
+
+/* Refuses models that `check` calls unusable, before any solver runs. */
+static int usable(const bc_model *m)
+{
+    bc_findings fd;
+    if (bc_analyse(m, &fd) < 0)
+        return -1;
+    int ok = !bc_findings_fatal(m, &fd);
+    if (!ok)
+        fprintf(stderr, "bellcheck solve: with discount 1, no policy reaches a terminal state "
+                        "with probability 1 from %d state%s (first: %s); their total reward is "
+                        "undefined. `bellcheck check` lists them.\n",
+                (int)fd.n_no_exit, fd.n_no_exit == 1 ? "" : "s",
+                bc_names_get(m->state_names, fd.no_exit[0]));
+    bc_findings_free(&fd);
+    return ok;
+}
+
+static int run_compare(const solve_args *a, const bc_model *m)
+{
+    bc_comparison cmp;
+    if (bc_compare(m, &a->o, &cmp) < 0) {
+        bc_comparison_free(&cmp);
+        fprintf(stderr, "bellcheck solve: out of memory\n");
+        return BC_EXIT_SOLVER;
+    }
+    if (bc_cli_text_wanted(&a->c))
+        bc_report_compare_text(stdout, m, &cmp);
+    int rc = cmp.agree ? BC_EXIT_OK : BC_EXIT_SOLVER;
+    if (a->c.json_path && write_output(a->c.json_path, m, NULL, &cmp, 'j') < 0)
+        rc = BC_EXIT_SOLVER;
+    /* The CSV outputs come from the first method that solved the model. */
+    const bc_solution *best = NULL;
+    for (int i = 0; i < cmp.n && !best; i++)
+        if (cmp.sol[i].status == BC_SOLVE_OK)
+            best = &cmp.sol[i];
+    if (best && a->values_out && write_output(a->values_out, m, best, NULL, 'v') < 0)
+        rc = BC_EXIT_SOLVER;
+    if (best && a->policy_out && write_output(a->policy_out, m, best, NULL, 'p') < 0)
+        rc = BC_EXIT_SOLVER;
+    bc_comparison_free(&cmp);
+    return rc;
+}
+
+static int run_one(const solve_args *a, const bc_model *m)
+{
+    bc_solution sol;
+    bc_solution_init(&sol);
+    bc_solve_status st = bc_solve(m, a->method, &a->o, &sol);
+    if (bc_cli_text_wanted(&a->c))
+        bc_report_solve_text(stdout, m, &sol, (int32_t)a->show);
+    int rc = st == BC_SOLVE_OK ? BC_EXIT_OK : BC_EXIT_SOLVER;
+    if (st != BC_SOLVE_OK)
+        fprintf(stderr, "bellcheck solve: %s: %s\n", bc_method_name(sol.method), sol.message);
+    if (sol.values) {
+        if (a->c.json_path && write_output(a->c.json_path, m, &sol, NULL, 'j') < 0)
+            rc = BC_EXIT_SOLVER;
+        if (a->values_out && write_output(a->values_out, m, &sol, NULL, 'v') < 0)
+            rc = BC_EXIT_SOLVER;
+        if (a->policy_out && write_output(a->policy_out, m, &sol, NULL, 'p') < 0)
+            rc = BC_EXIT_SOLVER;
+    }
+    bc_solution_free(&sol);
+    return rc;
+}
+
+int bc_cli_solve(int argc, char **argv)
+{
+    solve_args a;
+    memset(&a, 0, sizeof a);
+    bc_solve_opts_default(&a.o);
+    a.show = 10;
+    int rc = parse_args(argc, argv, &a);
+    if (rc != 0)
+        return rc < 0 ? BC_EXIT_OK : rc;
+    if (a.c.threads)
+        a.o.threads = a.c.threads;
+    bc_model *m = bc_cli_load_model(a.path, &a.c);
+    if (!m)
+        return BC_EXIT_USAGE;
+    int ok = usable(m);
+    if (ok <= 0)
+        rc = ok < 0 ? BC_EXIT_SOLVER : BC_EXIT_USAGE;
+    else
+        rc = a.compare ? run_compare(&a, m) : run_one(&a, m);
+    bc_model_free(m);
+    return rc;
+}

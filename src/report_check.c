@@ -1,0 +1,154 @@
+/* report_check.c — the reports of `check`: model summary and findings, as text and as JSON. */
+/* SPDX-License-Identifier: GPL-3.0-or-later */
+#include "report_internal.h"
+
+#define LIST_MAX 12 /* states named in a text line before "and N more" */
+
+int bc_findings_fatal(const bc_model *m, const bc_findings *fd)
+{
+    (void)m;
+    return fd->n_no_exit > 0;
+}
+
+static void name_list(FILE *f, const bc_model *m, const int32_t *states, int32_t n)
+{
+    for (int32_t k = 0; k < n && k < LIST_MAX; k++)
+        fprintf(f, "%s%s", k ? ", " : "", bc_names_get(m->state_names, states[k]));
+    if (n > LIST_MAX)
+        fprintf(f, " and %d more", (int)(n - LIST_MAX));
+    fputc('\n', f);
+}
+
+static void summary_text(FILE *f, const bc_model *m, const bc_findings *fd, const char *source)
+{
+    char g[64];
+    bc_num_format(g, sizeof g, m->discount_exact, m->big);
+    fprintf(f, "model %s (%s)\n", m->name, source);
+    fprintf(f, "  %d states (%d terminal), %d actions, %lld state-action pairs, %lld transitions\n",
+            (int)m->n_states, (int)fd->n_terminal, (int)m->n_actions, (long long)m->n_pairs,
+            (long long)m->n_trans);
+    fprintf(f, "  discount %s, objective %s, ", g, m->objective == BC_MAX ? "max (rewards)" : "min (costs)");
+    if (m->horizon > 0)
+        fprintf(f, "finite horizon of %d decisions\n", (int)m->horizon);
+    else
+        fprintf(f, "infinite horizon\n");
+    int32_t support = 0;
+    for (int32_t s = 0; s < m->n_states; s++)
+        support += m->initial[s] > 0;
+    fprintf(f, "  initial distribution: %s, %d state%s\n",
+            m->initial_given ? "as given" : "uniform over non-terminal states (default)",
+            (int)support, support == 1 ? "" : "s");
+}
+
+int bc_report_check_text(FILE *f, const bc_model *m, const bc_findings *fd, const char *source)
+{
+    summary_text(f, m, fd, source);
+    fputs("findings\n", f);
+    if (m->n_renormalised == 0) {
+        fprintf(f, "  ok       probabilities: all %lld lines sum to exactly 1\n",
+                (long long)m->n_pairs);
+    } else {
+        fprintf(f, "  warning  probabilities: %d line%s summed to within 1e-9 of 1 and %s "
+                   "renormalised exactly: line",
+                (int)m->n_renormalised, m->n_renormalised == 1 ? "" : "s",
+                m->n_renormalised == 1 ? "was" : "were");
+        for (int32_t k = 0; k < m->n_renormalised && k < LIST_MAX; k++)
+            fprintf(f, "%s %d", k ? "," : "", (int)m->renormalised_lines[k]);
+        fputs(m->n_renormalised > LIST_MAX ? ", ...\n" : "\n", f);
+    }
+    fputs("  ok       no dead ends (every non-terminal state has an action)\n", f);
+    if (fd->n_unreachable == 0) {
+        fputs("  ok       every state is reachable from the initial distribution\n", f);
+    } else {
+        fprintf(f, "  warning  %d state%s unreachable from the initial distribution: ",
+                (int)fd->n_unreachable, fd->n_unreachable == 1 ? " is" : "s are");
+        name_list(f, m, fd->unreachable, fd->n_unreachable);
+    }
+    if (m->discount == 1 && m->horizon == 0) {
+        if (fd->n_no_exit == 0) {
+            fputs("  ok       from every state some policy reaches a terminal state with "
+                  "probability 1\n",
+                  f);
+        } else {
+            fprintf(f, "  error    with discount 1, no policy reaches a terminal state with "
+                       "probability 1 from %d state%s, so their total reward is undefined: ",
+                    (int)fd->n_no_exit, fd->n_no_exit == 1 ? "" : "s");
+            name_list(f, m, fd->no_exit, fd->n_no_exit);
+        }
+        if (fd->n_zero_cycle_states == 0) {
+            fputs("  ok       no policy can loop forever on zero rewards\n", f);
+        } else {
+            fprintf(f, "  warning  %d state%s can loop forever on zero-reward actions (policies "
+                       "that never terminate there have finite value; solvers start from a "
+                       "terminating policy): ",
+                    (int)fd->n_zero_cycle_states, fd->n_zero_cycle_states == 1 ? "" : "s");
+            name_list(f, m, fd->zero_cycle_states, fd->n_zero_cycle_states);
+        }
+    }
+    int warnings = (m->n_renormalised > 0) + (fd->n_unreachable > 0) + (fd->n_zero_cycle_states > 0);
+    if (bc_findings_fatal(m, fd))
+        fputs("verdict: not usable (see the error above)\n", f);
+    else if (warnings)
+        fprintf(f, "verdict: usable, with %d warning%s\n", warnings, warnings == 1 ? "" : "s");
+    else
+        fputs("verdict: usable\n", f);
+    return ferror(f) ? -1 : 0;
+}
+
+void bc__json_model(bc_jw *w, const bc_model *m)
+{
+    char g[64];
+    bc_num_format(g, sizeof g, m->discount_exact, m->big);
+    bc_jw_object(w, "model");
+    bc_jw_string(w, "name", m->name);
+    bc_jw_int(w, "states", m->n_states);
+    bc_jw_int(w, "actions", m->n_actions);
+    bc_jw_int(w, "pairs", m->n_pairs);
+    bc_jw_int(w, "transitions", m->n_trans);
+    int32_t term = 0;
+    for (int32_t s = 0; s < m->n_states; s++)
+        term += m->terminal[s];
+    bc_jw_int(w, "terminal_states", term);
+    bc_jw_number(w, "discount", m->discount);
+    bc_jw_string(w, "discount_exact", g);
+    bc_jw_string(w, "objective", m->objective == BC_MAX ? "max" : "min");
+    if (m->horizon > 0)
+        bc_jw_int(w, "horizon", m->horizon);
+    else
+        bc_jw_null(w, "horizon");
+    bc_jw_end(w, '}');
+}
+
+static void json_state_list(bc_jw *w, const char *key, const bc_model *m, const int32_t *s,
+                            int32_t n)
+{
+    bc_jw_array(w, key);
+    for (int32_t k = 0; k < n; k++)
+        bc_jw_string(w, NULL, bc_names_get(m->state_names, s[k]));
+    bc_jw_end(w, ']');
+}
+
+int bc_report_check_json(FILE *f, const bc_model *m, const bc_findings *fd, const char *source)
+{
+    bc_jw w;
+    bc_jw_init(&w, f);
+    bc_jw_object(&w, NULL);
+    bc_jw_string(&w, "source", source);
+    bc__json_model(&w, m);
+    bc_jw_bool(&w, "usable", !bc_findings_fatal(m, fd));
+    bc_jw_array(&w, "renormalised_lines");
+    for (int32_t k = 0; k < m->n_renormalised; k++)
+        bc_jw_int(&w, NULL, m->renormalised_lines[k]);
+    bc_jw_end(&w, ']');
+    json_state_list(&w, "unreachable", m, fd->unreachable, fd->n_unreachable);
+    if (m->discount == 1 && m->horizon == 0) {
+        json_state_list(&w, "no_exit", m, fd->no_exit, fd->n_no_exit);
+        json_state_list(&w, "zero_reward_loops", m, fd->zero_cycle_states, fd->n_zero_cycle_states);
+    } else {
+        bc_jw_null(&w, "no_exit");
+        bc_jw_null(&w, "zero_reward_loops");
+    }
+    bc_jw_end(&w, '}');
+    bc_jw_finish(&w);
+    return ferror(f) ? -1 : 0;
+}

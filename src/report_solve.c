@@ -1,0 +1,183 @@
+/* report_solve.c — the reports of `solve` and `solve --compare`, as text and as JSON. */
+/* SPDX-License-Identifier: GPL-3.0-or-later */
+#include "report_internal.h"
+
+#include <math.h>
+
+static const char *method_long(bc_method m)
+{
+    switch (m) {
+    case BC_METHOD_VI: return "Gauss-Seidel value iteration";
+    case BC_METHOD_PI: return "policy iteration (Howard)";
+    case BC_METHOD_LP: return "linear programming (GLPK simplex)";
+    case BC_METHOD_BACKWARD: return "backward induction";
+    default: return "?";
+    }
+}
+
+static const char *status_word(bc_solve_status s)
+{
+    switch (s) {
+    case BC_SOLVE_OK: return "solved";
+    case BC_SOLVE_NOT_CONVERGED: return "not converged";
+    case BC_SOLVE_FAILED: return "failed";
+    default: return "out of memory";
+    }
+}
+
+/* "± 3.2e-10 (proven)" or "(no proven bound)". */
+static void bound_text(FILE *f, double bound)
+{
+    if (bound >= 0)
+        fprintf(f, "+/- %.2g (proven bound)", bound);
+    else
+        fputs("(no proven bound)", f);
+}
+
+int bc_report_solve_text(FILE *f, const bc_model *m, const bc_solution *sol, int32_t show)
+{
+    fprintf(f, "model %s: %d states, %d actions, discount %g, objective %s\n", m->name,
+            (int)m->n_states, (int)m->n_actions, m->discount, m->objective == BC_MAX ? "max" : "min");
+    fprintf(f, "method %s (%s): %s, %lld %s, %.3f s\n", bc_method_name(sol->method),
+            method_long(sol->method), status_word(sol->status), (long long)sol->iterations,
+            sol->method == BC_METHOD_PI ? "improvement steps" :
+            sol->method == BC_METHOD_BACKWARD ? "stages" : "iterations", sol->seconds);
+    if (sol->message[0])
+        fprintf(f, "  %s\n", sol->message);
+    if (!sol->values)
+        return ferror(f) ? -1 : 0;
+    fprintf(f, "optimal value at the initial distribution: %.10g ", sol->value_initial);
+    bound_text(f, sol->bound);
+    fputc('\n', f);
+    if (m->horizon > 0)
+        fprintf(f, "(values and policy below are those of the first of %d stages)\n", (int)m->horizon);
+    int32_t n = m->n_states < show ? m->n_states : show;
+    if (n > 0)
+        fprintf(f, "%-24s %-20s %s\n", "state", "action", "value");
+    for (int32_t s = 0; s < n; s++) {
+        int64_t p = sol->policy ? sol->policy[s] : -1;
+        fprintf(f, "%-24s %-20s %.10g\n", bc_names_get(m->state_names, s),
+                p >= 0 ? bc_names_get(m->action_names, m->pair_action[p]) : "(terminal)",
+                sol->values[s]);
+    }
+    if (n < m->n_states)
+        fprintf(f, "... %d more states (use --values-out / --policy-out or --json)\n",
+                (int)(m->n_states - n));
+    return ferror(f) ? -1 : 0;
+}
+
+static void json_bound(bc_jw *w, double bound)
+{
+    if (bound >= 0)
+        bc_jw_number(w, "bound", bound);
+    else
+        bc_jw_null(w, "bound");
+}
+
+/* method, status, value_initial, bound, iterations, seconds, message. */
+static void json_solution_head(bc_jw *w, const bc_solution *sol)
+{
+    bc_jw_string(w, "method", bc_method_name(sol->method));
+    bc_jw_string(w, "status", status_word(sol->status));
+    bc_jw_number(w, "value_initial", sol->value_initial);
+    json_bound(w, sol->bound);
+    bc_jw_bool(w, "bound_proven", sol->bound >= 0);
+    bc_jw_int(w, "iterations", sol->iterations);
+    bc_jw_number(w, "seconds", sol->seconds);
+    bc_jw_string(w, "message", sol->message);
+}
+
+static void json_policy(bc_jw *w, const char *key, const bc_model *m, const int64_t *policy)
+{
+    bc_jw_object(w, key);
+    for (int32_t s = 0; s < m->n_states; s++)
+        if (policy[s] >= 0)
+            bc_jw_string(w, bc_names_get(m->state_names, s),
+                         bc_names_get(m->action_names, m->pair_action[policy[s]]));
+    bc_jw_end(w, '}');
+}
+
+static void json_values(bc_jw *w, const bc_model *m, const double *v)
+{
+    bc_jw_object(w, "values");
+    for (int32_t s = 0; s < m->n_states; s++)
+        bc_jw_number(w, bc_names_get(m->state_names, s), v[s]);
+    bc_jw_end(w, '}');
+}
+
+int bc_report_solve_json(FILE *f, const bc_model *m, const bc_solution *sol)
+{
+    bc_jw w;
+    bc_jw_init(&w, f);
+    bc_jw_object(&w, NULL);
+    bc__json_model(&w, m);
+    json_solution_head(&w, sol);
+    if (sol->values) {
+        json_values(&w, m, sol->values);
+        json_policy(&w, "policy", m, sol->policy);
+    }
+    if (sol->stage_policy) {
+        bc_jw_array(&w, "stage_policy");
+        for (int32_t t = 0; t < m->horizon; t++)
+            json_policy(&w, NULL, m, sol->stage_policy + (int64_t)t * m->n_states);
+        bc_jw_end(&w, ']');
+    }
+    bc_jw_end(&w, '}');
+    bc_jw_finish(&w);
+    return ferror(f) ? -1 : 0;
+}
+
+int bc_report_compare_text(FILE *f, const bc_model *m, const bc_comparison *c)
+{
+    fprintf(f, "model %s: %d states; every method solved it independently\n", m->name,
+            (int)m->n_states);
+    fprintf(f, "%-8s %-14s %-20s %-12s %-10s\n", "method", "status", "value at initial", "bound",
+            "seconds");
+    for (int i = 0; i < c->n; i++) {
+        const bc_solution *s = &c->sol[i];
+        char b[32];
+        if (s->bound >= 0)
+            snprintf(b, sizeof b, "%.2g", s->bound);
+        else
+            snprintf(b, sizeof b, "none");
+        fprintf(f, "%-8s %-14s %-20.12g %-12s %-10.3f\n", bc_method_name(s->method),
+                status_word(s->status), s->value_initial, b, s->seconds);
+        if (s->status != BC_SOLVE_OK)
+            fprintf(f, "         %s\n", s->message);
+    }
+    fprintf(f, "largest disagreement between methods: %.3g", c->max_disagreement);
+    if (c->worst_state >= 0)
+        fprintf(f, " (worst excess at state %s, %s vs %s, allowed %.3g)",
+                bc_names_get(m->state_names, c->worst_state),
+                bc_method_name(c->sol[c->worst_i].method), bc_method_name(c->sol[c->worst_j].method),
+                c->allowed);
+    fputc('\n', f);
+    fprintf(f, "verdict: %s\n", c->agree ? "the methods agree within their bounds"
+                                         : "the methods DISAGREE beyond their bounds, or one failed");
+    return ferror(f) ? -1 : 0;
+}
+
+int bc_report_compare_json(FILE *f, const bc_model *m, const bc_comparison *c)
+{
+    bc_jw w;
+    bc_jw_init(&w, f);
+    bc_jw_object(&w, NULL);
+    bc__json_model(&w, m);
+    bc_jw_bool(&w, "agree", c->agree);
+    bc_jw_number(&w, "max_disagreement", c->max_disagreement);
+    bc_jw_number(&w, "allowed", c->allowed);
+    if (c->worst_state >= 0)
+        bc_jw_string(&w, "worst_state", bc_names_get(m->state_names, c->worst_state));
+    else
+        bc_jw_null(&w, "worst_state");
+    bc_jw_array(&w, "methods");
+    for (int i = 0; i < c->n; i++) {
+        bc_jw_object(&w, NULL);
+        json_solution_head(&w, &c->sol[i]);
+        bc_jw_end(&w, '}');
+    }
+    bc_jw_end(&w, ']');
+    bc_jw_end(&w, '}');
+    bc_jw_finish(&w);
+    return ferror(f) ? -1 : 0;
+}
