@@ -4,7 +4,8 @@
  *
  * Names live back to back (NUL-terminated) in one growing arena, addressed by
  * offset so that growing it never invalidates anything; the hash table holds
- * name indices and is kept at most half full, so a lookup probes O(1) slots.
+ * name indices with 32 bits of their hash and is kept at most half full, so a
+ * lookup probes O(1) slots and touches the arena only on a likely match.
  */
 #include "bellcheck.h"
 
@@ -12,13 +13,18 @@
 #include <stdlib.h>
 #include <string.h>
 
+typedef struct {
+    uint32_t hash; /* high bits of the name's hash */
+    int32_t index; /* name index, or -1 for an empty slot */
+} slot_t;
+
 struct bc_names {
     char *arena;
     size_t arena_len, arena_cap;
     size_t *offset;      /* [count] start of name i in arena */
     uint32_t *len;       /* [count] */
     int32_t count, cap;
-    int32_t *slot;       /* [n_slots] name index or -1 */
+    slot_t *slot;        /* [n_slots] */
     size_t n_slots;      /* power of two */
 };
 
@@ -66,28 +72,35 @@ static int names_equal(const bc_names *t, int32_t i, const char *s, size_t len)
 int32_t bc_names_find(const bc_names *t, const char *s, size_t len)
 {
     size_t mask = t->n_slots - 1;
-    for (size_t k = name_hash(s, len) & mask;; k = (k + 1) & mask) {
-        int32_t i = t->slot[k];
+    uint64_t h = name_hash(s, len);
+    uint32_t tag = (uint32_t)(h >> 32);
+    for (size_t k = h & mask;; k = (k + 1) & mask) {
+        int32_t i = t->slot[k].index;
         if (i < 0)
             return -1;
-        if (names_equal(t, i, s, len))
+        if (t->slot[k].hash == tag && names_equal(t, i, s, len))
             return i;
     }
 }
 
+/* Puts name i (hash h) into the first free slot of its probe sequence. */
+static void slot_insert(slot_t *slot, size_t n_slots, uint64_t h, int32_t i)
+{
+    size_t mask = n_slots - 1, k = h & mask;
+    while (slot[k].index >= 0)
+        k = (k + 1) & mask;
+    slot[k].hash = (uint32_t)(h >> 32);
+    slot[k].index = i;
+}
+
 static int names_rehash(bc_names *t, size_t n_slots)
 {
-    int32_t *slot = malloc(n_slots * sizeof *slot);
+    slot_t *slot = malloc(n_slots * sizeof *slot);
     if (!slot)
         return -1;
     memset(slot, 0xff, n_slots * sizeof *slot);
-    size_t mask = n_slots - 1;
-    for (int32_t i = 0; i < t->count; i++) {
-        size_t k = name_hash(t->arena + t->offset[i], t->len[i]) & mask;
-        while (slot[k] >= 0)
-            k = (k + 1) & mask;
-        slot[k] = i;
-    }
+    for (int32_t i = 0; i < t->count; i++)
+        slot_insert(slot, n_slots, name_hash(t->arena + t->offset[i], t->len[i]), i);
     free(t->slot);
     t->slot = slot;
     t->n_slots = n_slots;
@@ -139,11 +152,7 @@ int32_t bc_names_intern(bc_names *t, const char *s, size_t len)
     memcpy(t->arena + t->arena_len, s, len);
     t->arena[t->arena_len + len] = 0;
     t->arena_len += len + 1;
-    size_t mask = t->n_slots - 1;
-    size_t k = name_hash(s, len) & mask;
-    while (t->slot[k] >= 0)
-        k = (k + 1) & mask;
-    t->slot[k] = i;
+    slot_insert(t->slot, t->n_slots, name_hash(s, len), i);
     return i;
 }
 

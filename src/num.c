@@ -74,8 +74,31 @@ bc_num bc_num_int(int64_t v)
     return r;
 }
 
+/* Binary gcd on 64 bits: no division, far cheaper than 128-bit modulo. */
+static uint64_t gcd_u64(uint64_t a, uint64_t b)
+{
+    if (a == 0)
+        return b;
+    if (b == 0)
+        return a;
+    int shift = __builtin_ctzll(a | b);
+    a >>= __builtin_ctzll(a);
+    do {
+        b >>= __builtin_ctzll(b);
+        if (a > b) {
+            uint64_t t = a;
+            a = b;
+            b = t;
+        }
+        b -= a;
+    } while (b);
+    return a << shift;
+}
+
 static u128 gcd_u128(u128 a, u128 b)
 {
+    if ((a >> 64) == 0 && (b >> 64) == 0)
+        return gcd_u64((uint64_t)a, (uint64_t)b);
     while (b) {
         u128 t = a % b;
         a = b;
@@ -102,6 +125,13 @@ static int num_from_i128(i128 n, i128 d, bc_num *out, bc_bigtab *big)
     if (d < 0) {
         n = -n;
         d = -d;
+    }
+    if (n > INT64_MIN && n <= INT64_MAX && d <= INT64_MAX) { /* 64-bit path, no 128-bit division */
+        int64_t n64 = (int64_t)n, d64 = (int64_t)d;
+        uint64_t g64 = gcd_u64(n64 < 0 ? (uint64_t)-n64 : (uint64_t)n64, (uint64_t)d64);
+        out->num = g64 > 1 ? n64 / (int64_t)g64 : n64;
+        out->den = g64 > 1 ? d64 / (int64_t)g64 : d64;
+        return 0;
     }
     u128 g = gcd_u128(n < 0 ? -(u128)n : (u128)n, (u128)d);
     if (g > 1) {
@@ -188,6 +218,8 @@ int bc_num_add(bc_num a, bc_num b, bc_num *out, bc_bigtab *big)
 {
     if (a.den == 0 || b.den == 0)
         return num_op_big('+', a, b, out, big);
+    if (a.den == b.den) /* common case: probabilities over one denominator */
+        return num_from_i128((i128)a.num + b.num, a.den, out, big);
     /* |num| < 2^63, den < 2^63: products < 2^126, the sum < 2^127 — no overflow. */
     i128 n = (i128)a.num * b.den + (i128)b.num * a.den;
     i128 d = (i128)a.den * b.den;
@@ -312,6 +344,22 @@ static int parse_fraction(const char *s, size_t len, bc_num *out, bc_bigtab *big
     if (nlen > BC_NUM_MAX_DIGITS || dlen > BC_NUM_MAX_DIGITS) {
         *why = "a number has more than 4096 digits";
         return -1;
+    }
+    if (nlen <= 18 && dlen <= 18) { /* fast path: both parts fit in int64 */
+        int64_t n = 0, d = 0;
+        for (size_t k = slash - nlen; k < slash; k++)
+            n = n * 10 + (s[k] - '0');
+        for (size_t k = dstart; k < dstart + dlen; k++)
+            d = d * 10 + (s[k] - '0');
+        if (d == 0) {
+            *why = "the denominator of a fraction is zero";
+            return -1;
+        }
+        if (num_from_i128(neg ? -(i128)n : (i128)n, (i128)d, out, big) < 0) {
+            *why = "out of memory";
+            return -1;
+        }
+        return 0;
     }
     mpq_t q;
     mpq_init(q);
