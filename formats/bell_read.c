@@ -148,6 +148,12 @@ static int transition_line(reader *r)
     if (bc_builder_pair_begin(r->b, t[0].s, t[0].len, pos_of(r, &t[0]), t[1].s, t[1].len,
                               pos_of(r, &t[1]), reward) < 0)
         return -1;
+    /* Successor names are usually scattered over a large table: start all
+     * their lookups before resolving any, so the cache misses overlap. */
+    for (int stage = 0; stage < 2; stage++)
+        for (size_t k = 4; k < n; k++)
+            if (is_name_start(t[k].s[0]))
+                bc_builder_prefetch_state(r->b, t[k].s, t[k].len, stage);
     size_t i = 4;
     int rc = 0;
     if (i >= n)

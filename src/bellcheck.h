@@ -112,6 +112,9 @@ void bc_names_free(bc_names *t);                                /* NULL is allow
 int32_t bc_names_intern(bc_names *t, const char *s, size_t len); /* index of s, adding it if new; -1 on out of memory */
 int32_t bc_names_find(const bc_names *t, const char *s, size_t len); /* index of s, or -1 */
 const char *bc_names_get(const bc_names *t, int32_t i);         /* NUL-terminated name i */
+/* Hint that s will be looked up soon: stage 0 fetches its slot, stage 1 (later) its text.
+ * Issuing both stages for all names of a line overlaps their cache misses. */
+void bc_names_prefetch(const bc_names *t, const char *s, size_t len, int stage);
 int32_t bc_names_count(const bc_names *t);                      /* number of names */
 /* New table with the names in the order perm[0], perm[1], ... (perm holds old indices). */
 bc_names *bc_names_permuted(const bc_names *t, const int32_t *perm);
@@ -205,6 +208,7 @@ void bc_builder_free(bc_builder *b);                            /* discards ever
 bc_bigtab *bc_builder_bigtab(bc_builder *b);                     /* where parsed numbers must live */
 int32_t bc_builder_state(bc_builder *b, const char *name, size_t len, bc_pos at);  /* state index (interned); -1 on error */
 int32_t bc_builder_action(bc_builder *b, const char *name, size_t len, bc_pos at); /* action index (interned); -1 on error */
+void bc_builder_prefetch_state(bc_builder *b, const char *name, size_t len, int stage); /* see bc_names_prefetch */
 /* Directives: each returns 0, or -1 after reporting the problem (repeated directive, bad value). */
 int bc_builder_name(bc_builder *b, const char *text, size_t len, bc_pos at);
 int bc_builder_discount(bc_builder *b, bc_num g, bc_pos at);

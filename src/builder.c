@@ -131,10 +131,33 @@ bc_bigtab *bc_builder_bigtab(bc_builder *b)
     return b->big;
 }
 
+/* 1 when name[0..len) matches [A-Za-z_][A-Za-z0-9_.:-]* and is at most BC_NAME_MAX bytes.
+ * Readers check names with their own messages; this guards every other caller. */
+static int valid_name(const char *name, size_t len)
+{
+    if (len == 0 || len > BC_NAME_MAX)
+        return 0;
+    for (size_t i = 0; i < len; i++) {
+        unsigned char c = (unsigned char)name[i];
+        int alpha = (c >= 'A' && c <= 'Z') || (c >= 'a' && c <= 'z') || c == '_';
+        int other = (c >= '0' && c <= '9') || c == '.' || c == ':' || c == '-';
+        if (!(alpha || (i > 0 && other)))
+            return 0;
+    }
+    return 1;
+}
+
 /* Interns a name into a name set and records where it first appeared. */
 static int32_t nameset_intern(bc_builder *b, bc_nameset *ns, const char *name, size_t len,
                               bc_pos at)
 {
+    if (!valid_name(name, len)) {
+        bc__builder_report(b, BC_ERROR, at,
+                           "`%.*s` is not a valid name: names start with a letter or _, "
+                           "continue with letters, digits, _ . : - and have at most 255 bytes",
+                           (int)(len > 80 ? 80 : len), name);
+        return -1;
+    }
     int32_t before = bc_names_count(ns->names);
     int32_t i = bc_names_intern(ns->names, name, len);
     if (i < 0) {
@@ -161,6 +184,11 @@ static int32_t nameset_intern(bc_builder *b, bc_nameset *ns, const char *name, s
 int32_t bc_builder_state(bc_builder *b, const char *name, size_t len, bc_pos at)
 {
     return nameset_intern(b, &b->states, name, len, at);
+}
+
+void bc_builder_prefetch_state(bc_builder *b, const char *name, size_t len, int stage)
+{
+    bc_names_prefetch(b->states.names, name, len, stage);
 }
 
 int32_t bc_builder_action(bc_builder *b, const char *name, size_t len, bc_pos at)
