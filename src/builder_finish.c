@@ -4,6 +4,7 @@
 #include "builder_internal.h"
 
 #include <assert.h>
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -74,8 +75,11 @@ static uint8_t *terminal_and_dead_ends(bc_builder *b, const int32_t *inv_state, 
     for (int64_t p = 0; p < b->n_pairs; p++) {
         int32_t s = inv_state[b->p_state[p]];
         count[s]++;
+        char where[48];
+        snprintf(where, sizeof where, "transitions[%lld]", (long long)p); /* sources without lines */
         if (term[s] && count[s] == 1)
-            bc__builder_report(b, BC_ERROR, (bc_pos){b->p_line[p], b->p_col[p], NULL},
+            bc__builder_report(b, BC_ERROR,
+                               (bc_pos){b->p_line[p], b->p_col[p], b->p_line[p] > 0 ? NULL : where},
                                "state `%s` is declared terminal, so it cannot have transition "
                                "lines",
                                bc_names_get(b->states.names, b->p_state[p]));
@@ -157,12 +161,20 @@ static void duplicate_pairs(bc_builder *b, const int64_t *order)
         int64_t p = order ? order[k] : k, q = order ? order[k - 1] : k - 1;
         if (b->p_state[p] == b->p_state[q] && b->p_action[p] == b->p_action[q]) {
             int64_t later = p > q ? p : q, earlier = p > q ? q : p;
-            bc__builder_report(b, BC_ERROR, (bc_pos){b->p_line[later], b->p_col[later], NULL},
-                               "state `%s` action `%s` already has a line (line %d); a pair "
+            /* Sources without lines (JSON) number their pairs in input order,
+             * which is the raw pair index. */
+            char where[48], first[48];
+            snprintf(where, sizeof where, "transitions[%lld]", (long long)later);
+            if (b->p_line[earlier] > 0)
+                snprintf(first, sizeof first, "line %d", (int)b->p_line[earlier]);
+            else
+                snprintf(first, sizeof first, "transitions[%lld]", (long long)earlier);
+            bc_pos at = {b->p_line[later], b->p_col[later], b->p_line[later] > 0 ? NULL : where};
+            bc__builder_report(b, BC_ERROR, at,
+                               "state `%s` action `%s` already has a line (%s); a pair "
                                "appears on at most one line",
                                bc_names_get(b->states.names, b->p_state[p]),
-                               bc_names_get(b->actions.names, b->p_action[p]),
-                               (int)b->p_line[earlier]);
+                               bc_names_get(b->actions.names, b->p_action[p]), first);
         }
     }
 }
