@@ -75,14 +75,15 @@ static uint8_t *terminal_and_dead_ends(bc_builder *b, const int32_t *inv_state, 
     for (int64_t p = 0; p < b->n_pairs; p++) {
         int32_t s = inv_state[b->p_state[p]];
         count[s]++;
-        char where[48];
-        snprintf(where, sizeof where, "transitions[%lld]", (long long)p); /* sources without lines */
-        if (term[s] && count[s] == 1)
+        if (term[s] && count[s] == 1) {
+            char where[48]; /* for sources without lines */
+            snprintf(where, sizeof where, "transitions[%lld]", (long long)p);
             bc__builder_report(b, BC_ERROR,
                                (bc_pos){b->p_line[p], b->p_col[p], b->p_line[p] > 0 ? NULL : where},
                                "state `%s` is declared terminal, so it cannot have transition "
                                "lines",
                                bc_names_get(b->states.names, b->p_state[p]));
+        }
     }
     int32_t dead = 0;
     for (int32_t s = 0; s < n_states; s++)
