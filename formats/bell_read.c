@@ -127,23 +127,71 @@ static int tokenize(reader *r, const char *p, const char *end)
     return 0;
 }
 
+/* The successors after `->`: NEXT [PROB [OUTCOME_REWARD]] ...; 0 or -1. */
+static int successors(reader *r)
+{
+    const token *t = r->tok;
+    size_t n = r->n_tok, n_succ = 0;
+    if (n == 4)
+        return report(r, &t[3], "expected a successor state after `%.*s`", t[3].s, t[3].len);
+    for (size_t k = 4; k < n; k++)
+        n_succ += is_name_start(t[k].s[0]);
+    for (size_t i = 4; i < n;) {
+        const token *name = &t[i++];
+        if (expect_name(r, name, "a successor state") < 0)
+            return -1;
+        bc_num prob, outcome;
+        const bc_num *has_prob = NULL, *has_outcome = NULL;
+        if (i < n && is_number_token(&t[i])) {
+            const token *pt = &t[i++];
+            if (expect_number(r, pt, "a probability", &prob) < 0)
+                return -1;
+            if (bc_num_sign(prob, bc_builder_bigtab(r->b)) < 0)
+                return report(r, pt, "a probability must not be negative; found `%.*s`", pt->s,
+                              pt->len);
+            has_prob = &prob;
+            if (i < n && is_number_token(&t[i])) {
+                if (expect_number(r, &t[i++], "an outcome reward", &outcome) < 0)
+                    return -1;
+                has_outcome = &outcome;
+            }
+        } else if (n_succ > 1) {
+            return report(r, name,
+                          "successor `%.*s` needs a probability: only a lone successor may omit it",
+                          name->s, name->len);
+        }
+        if (bc_builder_succ(r->b, name->s, name->len, has_prob, has_outcome, pos_of(r, name)) < 0)
+            return -1;
+    }
+    return 0;
+}
+
 /* STATE ACTION REWARD -> NEXT [PROB [OUTCOME]] ... */
 static int transition_line(reader *r)
 {
     token *t = r->tok;
     size_t n = r->n_tok;
-    if (n < 4 || !is_arrow(&t[3])) {
-        const token *bad = n >= 4 ? &t[3] : &t[n - 1];
-        if (n >= 4)
-            return report(r, bad,
-                          "expected `->` after STATE ACTION REWARD, found `%.*s`", bad->s,
-                          bad->len);
-        return report(r, bad, "expected STATE ACTION REWARD -> NEXT ...; the line ends after `%.*s`",
-                      bad->s, bad->len);
-    }
+    /* Check the tokens in reading order, so the message points at the first wrong one. */
+    if (expect_name(r, &t[0], "a state name") < 0)
+        return -1;
+    if (n < 2 || is_arrow(&t[1]))
+        return report(r, n < 2 ? &t[0] : &t[1],
+                      "expected an action name after the state `%.*s`", t[0].s, t[0].len);
+    if (expect_name(r, &t[1], "an action name") < 0)
+        return -1;
+    if (n < 3)
+        return report(r, &t[1], "expected the reward (a number) after the action `%.*s`", t[1].s,
+                      t[1].len);
+    if (is_arrow(&t[2]))
+        return report(r, &t[2], "expected the reward (a number) before `%.*s`", t[2].s, t[2].len);
+    if (n < 4)
+        return report(r, &t[2], "expected `->` and the successors after the reward `%.*s`",
+                      t[2].s, t[2].len);
+    if (!is_arrow(&t[3]))
+        return report(r, &t[3], "expected `->` after STATE ACTION REWARD, found `%.*s`", t[3].s,
+                      t[3].len);
     bc_num reward;
-    if (expect_name(r, &t[0], "a state name") < 0 || expect_name(r, &t[1], "an action name") < 0 ||
-        expect_number(r, &t[2], "the reward (a number)", &reward) < 0)
+    if (expect_number(r, &t[2], "the reward (a number)", &reward) < 0)
         return -1;
     if (bc_builder_pair_begin(r->b, t[0].s, t[0].len, pos_of(r, &t[0]), t[1].s, t[1].len,
                               pos_of(r, &t[1]), reward) < 0)
@@ -154,36 +202,7 @@ static int transition_line(reader *r)
         for (size_t k = 4; k < n; k++)
             if (is_name_start(t[k].s[0]))
                 bc_builder_prefetch_state(r->b, t[k].s, t[k].len, stage);
-    size_t i = 4;
-    int rc = 0;
-    if (i >= n)
-        rc = report(r, &t[3], "expected a successor state after `%.*s`", t[3].s, t[3].len);
-    while (rc == 0 && i < n) {
-        const token *name = &t[i++];
-        if (expect_name(r, name, "a successor state") < 0) {
-            rc = -1;
-            break;
-        }
-        bc_num prob, outcome;
-        int has_prob = 0, has_outcome = 0;
-        if (i < n && is_number_token(&t[i])) {
-            if (expect_number(r, &t[i++], "a probability", &prob) < 0) {
-                rc = -1;
-                break;
-            }
-            has_prob = 1;
-            if (i < n && is_number_token(&t[i])) {
-                if (expect_number(r, &t[i++], "an outcome reward", &outcome) < 0) {
-                    rc = -1;
-                    break;
-                }
-                has_outcome = 1;
-            }
-        }
-        if (bc_builder_succ(r->b, name->s, name->len, has_prob ? &prob : NULL,
-                            has_outcome ? &outcome : NULL, pos_of(r, name)) < 0)
-            rc = -1;
-    }
+    int rc = successors(r);
     /* After an error the line is dropped whole: checking its sum would only add noise. */
     if (rc < 0) {
         bc_builder_pair_cancel(r->b);
@@ -270,6 +289,16 @@ static int name_line(reader *r, const char *end)
     return bc_builder_name(r->b, p, (size_t)(q - p), pos_of(r, &r->tok[0]));
 }
 
+static int is_directive(const token *t)
+{
+    static const char *const words[] = {"bell", "name", "discount", "objective", "horizon",
+                                        "initial", "terminal", "states", "actions"};
+    for (size_t i = 0; i < sizeof words / sizeof words[0]; i++)
+        if (token_is(t, words[i]))
+            return 1;
+    return 0;
+}
+
 static int directive_line(reader *r, const char *end)
 {
     token *k = &r->tok[0];
@@ -295,8 +324,12 @@ static int directive_line(reader *r, const char *end)
                    ? -1
                    : bc_builder_horizon(r->b, x, pos_of(r, &r->tok[1]));
     if (token_is(k, "objective")) {
+        if (r->n_tok < 2)
+            return report(r, k, "expected `max` or `min` after `%.*s`; the line ends there", k->s,
+                          k->len);
         if (r->n_tok != 2 || !(token_is(&r->tok[1], "max") || token_is(&r->tok[1], "min"))) {
-            const token *t = r->n_tok >= 2 ? &r->tok[1] : k;
+            const token *t = r->n_tok > 2 && (token_is(&r->tok[1], "max") || token_is(&r->tok[1], "min"))
+                                 ? &r->tok[2] : &r->tok[1];
             return report(r, t, "expected `objective max` or `objective min`, found `%.*s`", t->s,
                           t->len);
         }
@@ -311,13 +344,8 @@ static int directive_line(reader *r, const char *end)
         return list_line(r, bc_builder_states_begin, "a state name");
     if (token_is(k, "actions"))
         return list_line(r, bc_builder_actions_begin, "an action name");
-    if (is_name_start(k->s[0]))
-        return report(r, k,
-                      "`%.*s` is not a directive, and the line has no `->`; expected a directive "
-                      "(bell, name, discount, objective, horizon, initial, terminal, states, "
-                      "actions) or STATE ACTION REWARD -> NEXT ...",
-                      k->s, k->len);
-    return report(r, k, "expected a directive or a transition line, found `%.*s`", k->s, k->len);
+    /* read_line sends only the keywords above here. */
+    return report(r, k, "internal error: `%.*s` is not a directive", k->s, k->len);
 }
 
 /* Reads one line [p, end). */
@@ -336,7 +364,10 @@ static int read_line(reader *r, const char *p, const char *end)
     if (r->n_tok == 0)
         return 0;
     int rc = 0;
-    int is_transition = 0;
+    /* A line with `->` is a transition line; so is one that does not start
+     * with a directive keyword (then its messages say what a transition line
+     * lacks, rather than calling the state an unknown directive). */
+    int is_transition = !is_directive(&r->tok[0]);
     for (size_t i = 1; i < r->n_tok && !is_transition; i++)
         is_transition = is_arrow(&r->tok[i]);
     if (is_transition)

@@ -98,6 +98,17 @@ int bc_cli_common_option(bc_cli_common *c, int id, const char *arg)
     }
 }
 
+void bc_cli_report_unusable(const char *source, const bc_model *m, const bc_findings *fd)
+{
+    fprintf(stderr,
+            "%s: error: with discount 1, no policy reaches a terminal state with probability 1 "
+            "from %d state%s, so their total reward is undefined; the model is not usable:",
+            source, (int)fd->n_no_exit, fd->n_no_exit == 1 ? "" : "s");
+    for (int32_t k = 0; k < fd->n_no_exit && k < 8; k++)
+        fprintf(stderr, "%s %s", k ? "," : "", bc_names_get(m->state_names, fd->no_exit[k]));
+    fputs(fd->n_no_exit > 8 ? ", ...\n" : "\n", stderr);
+}
+
 int bc_cli_text_wanted(const bc_cli_common *c)
 {
     return !c->quiet && !(c->json_path && strcmp(c->json_path, "-") == 0);

@@ -27,6 +27,8 @@ int bc_cli_double(const char *cmd, const char *opt, const char *arg, double lo, 
 int bc_cli_long(const char *cmd, const char *opt, const char *arg, long long lo, long long hi, long long *out);
 /* Reads and checks a model; prints its messages to stderr.  NULL on error. */
 bc_model *bc_cli_load_model(const char *path, const bc_cli_common *c);
+/* Says on stderr why a model is unusable (bc_findings_fatal). */
+void bc_cli_report_unusable(const char *source, const bc_model *m, const bc_findings *fd);
 /* Text report goes to stdout unless --quiet or --json - . */
 int bc_cli_text_wanted(const bc_cli_common *c);
 

@@ -46,6 +46,8 @@ int bc_cli_check(int argc, char **argv)
     }
     const char *source = strcmp(path, "-") ? path : "<stdin>";
     int rc = bc_findings_fatal(m, &fd) ? BC_EXIT_USAGE : BC_EXIT_OK;
+    if (rc != BC_EXIT_OK)
+        bc_cli_report_unusable(source, m, &fd);
     if (bc_cli_text_wanted(&c))
         bc_report_check_text(stdout, m, &fd, source);
     if (c.json_path) {

@@ -12,7 +12,8 @@ static const char help[] =
     "that is proven on it, and the optimal policy.\n\n"
     "options:\n"
     "  --method M        vi (Gauss-Seidel value iteration), pi (policy iteration),\n"
-    "                    lp (linear programming, GLPK) or auto (default: the fastest\n"
+    "                    lp (linear programming, GLPK), backward (backward induction,\n"
+    "                    for models with a horizon) or auto (default: the fastest\n"
     "                    method that proves its bound for this model)\n"
     "  --compare         solve with every method; exit 3 if they disagree beyond\n"
     "                    their bounds\n"
@@ -60,8 +61,8 @@ static int parse_args(int argc, char **argv, solve_args *a)
         switch (id) {
         case OPT_HELP: fputs(help, stdout); return -1;
         case OPT_METHOD:
-            if (bc_method_parse(optarg, &a->method) < 0 || a->method == BC_METHOD_BACKWARD)
-                return bc_cli_usage_error("solve", "--method expects vi, pi, lp or auto, got '%s'", optarg);
+            if (bc_method_parse(optarg, &a->method) < 0)
+                return bc_cli_usage_error("solve", "--method expects vi, pi, lp, backward or auto, got '%s'", optarg);
             break;
         case OPT_COMPARE: a->compare = 1; break;
         case OPT_TOL:
@@ -96,43 +97,67 @@ static int parse_args(int argc, char **argv, solve_args *a)
     return 0;
 }
 
-/* Writes one output file through a temporary; 0 or -1 (message printed). */
-static int write_output(const char *path, const bc_model *m, const bc_solution *sol,
-                        const bc_comparison *cmp, char kind)
+/* The output files of one run: all are written to temporaries first and
+ * renamed into place only when every one of them succeeded. */
+typedef struct {
+    const char *path;
+    char kind; /* 'j' JSON report, 'v' values CSV, 'p' policy CSV */
+    bc_out out;
+} output;
+
+static int write_one(output *o, const bc_model *m, const bc_solution *sol, const bc_comparison *cmp)
 {
+    switch (o->kind) {
+    case 'j': return cmp ? bc_report_compare_json(o->out.f, m, cmp) : bc_report_solve_json(o->out.f, m, sol);
+    case 'v': return bc_write_values_csv(o->out.f, m, sol);
+    default: return bc_write_policy_csv(o->out.f, m, sol);
+    }
+}
+
+/* Writes every requested output, or none; 0, or -1 after printing why. */
+static int write_outputs(const solve_args *a, const bc_model *m, const bc_solution *sol,
+                         const bc_comparison *cmp)
+{
+    output outs[3];
+    int n = 0;
+    if (a->c.json_path)
+        outs[n++] = (output){a->c.json_path, 'j', {0}};
+    if (a->values_out && sol)
+        outs[n++] = (output){a->values_out, 'v', {0}};
+    if (a->policy_out && sol)
+        outs[n++] = (output){a->policy_out, 'p', {0}};
     bc_diag d;
     bc_diag_init(&d);
-    bc_out o;
-    int rc = -1;
-    if (bc_out_open(&o, path, &d) == 0) {
-        int w = kind == 'j' ? (cmp ? bc_report_compare_json(o.f, m, cmp) : bc_report_solve_json(o.f, m, sol))
-              : kind == 'v' ? bc_write_values_csv(o.f, m, sol)
-                            : bc_write_policy_csv(o.f, m, sol);
-        if (w < 0) {
-            bc_diag_add(&d, BC_ERROR, path, 0, 0, "write error");
-            bc_out_abort(&o);
-        } else if (bc_out_commit(&o, &d) == 0) {
-            rc = 0;
+    int k = 0, ok = 1;
+    for (; k < n && ok; k++)
+        ok = bc_out_open(&outs[k].out, outs[k].path, &d) == 0;
+    if (!ok)
+        k--; /* outs[k - 1] failed to open and holds nothing */
+    for (int i = 0; i < k && ok; i++)
+        if (write_one(&outs[i], m, sol, cmp) < 0) {
+            bc_diag_add(&d, BC_ERROR, outs[i].path, 0, 0, "write error");
+            ok = 0;
         }
+    for (int i = 0; i < k; i++) {
+        if (ok)
+            ok = bc_out_commit(&outs[i].out, &d) == 0;
+        else
+            bc_out_abort(&outs[i].out);
     }
     bc_diag_print(&d, stderr);
     bc_diag_free(&d);
-    return rc;
+    return ok ? 0 : -1;
 }
 
 /* Refuses models that `check` calls unusable, before any solver runs. */
-static int usable(const bc_model *m)
+static int usable(const bc_model *m, const char *source)
 {
     bc_findings fd;
     if (bc_analyse(m, &fd) < 0)
         return -1;
     int ok = !bc_findings_fatal(m, &fd);
     if (!ok)
-        fprintf(stderr, "bellcheck solve: with discount 1, no policy reaches a terminal state "
-                        "with probability 1 from %d state%s (first: %s); their total reward is "
-                        "undefined. `bellcheck check` lists them.\n",
-                (int)fd.n_no_exit, fd.n_no_exit == 1 ? "" : "s",
-                bc_names_get(m->state_names, fd.no_exit[0]));
+        bc_cli_report_unusable(source, m, &fd);
     bc_findings_free(&fd);
     return ok;
 }
@@ -148,16 +173,12 @@ static int run_compare(const solve_args *a, const bc_model *m)
     if (bc_cli_text_wanted(&a->c))
         bc_report_compare_text(stdout, m, &cmp);
     int rc = cmp.agree ? BC_EXIT_OK : BC_EXIT_SOLVER;
-    if (a->c.json_path && write_output(a->c.json_path, m, NULL, &cmp, 'j') < 0)
-        rc = BC_EXIT_SOLVER;
     /* The CSV outputs come from the first method that solved the model. */
     const bc_solution *best = NULL;
     for (int i = 0; i < cmp.n && !best; i++)
         if (cmp.sol[i].status == BC_SOLVE_OK)
             best = &cmp.sol[i];
-    if (best && a->values_out && write_output(a->values_out, m, best, NULL, 'v') < 0)
-        rc = BC_EXIT_SOLVER;
-    if (best && a->policy_out && write_output(a->policy_out, m, best, NULL, 'p') < 0)
+    if (write_outputs(a, m, best, &cmp) < 0)
         rc = BC_EXIT_SOLVER;
     bc_comparison_free(&cmp);
     return rc;
@@ -173,14 +194,8 @@ static int run_one(const solve_args *a, const bc_model *m)
     int rc = st == BC_SOLVE_OK ? BC_EXIT_OK : BC_EXIT_SOLVER;
     if (st != BC_SOLVE_OK)
         fprintf(stderr, "bellcheck solve: %s: %s\n", bc_method_name(sol.method), sol.message);
-    if (sol.values) {
-        if (a->c.json_path && write_output(a->c.json_path, m, &sol, NULL, 'j') < 0)
-            rc = BC_EXIT_SOLVER;
-        if (a->values_out && write_output(a->values_out, m, &sol, NULL, 'v') < 0)
-            rc = BC_EXIT_SOLVER;
-        if (a->policy_out && write_output(a->policy_out, m, &sol, NULL, 'p') < 0)
-            rc = BC_EXIT_SOLVER;
-    }
+    if (sol.values && write_outputs(a, m, &sol, NULL) < 0)
+        rc = BC_EXIT_SOLVER;
     bc_solution_free(&sol);
     return rc;
 }
@@ -199,7 +214,17 @@ int bc_cli_solve(int argc, char **argv)
     bc_model *m = bc_cli_load_model(a.path, &a.c);
     if (!m)
         return BC_EXIT_USAGE;
-    int ok = usable(m);
+    int ok = usable(m, strcmp(a.path, "-") ? a.path : "<stdin>");
+    if (ok > 0 && m->horizon > 0 && a.method != BC_METHOD_AUTO && a.method != BC_METHOD_BACKWARD) {
+        bc_cli_usage_error("solve", "the model has a horizon of %d decisions, which only backward "
+                                    "induction solves: use --method backward or auto",
+                           (int)m->horizon);
+        ok = 0;
+    }
+    if (ok > 0 && m->horizon == 0 && a.method == BC_METHOD_BACKWARD) {
+        bc_cli_usage_error("solve", "--method backward needs a model with a `horizon`");
+        ok = 0;
+    }
     if (ok <= 0)
         rc = ok < 0 ? BC_EXIT_SOLVER : BC_EXIT_USAGE;
     else

@@ -488,59 +488,73 @@ int bc_num_parse(const char *s, size_t len, bc_num *out, bc_bigtab *big, const c
 
 /* ---- formatting --------------------------------------------------------- */
 
-/* Writes the decimal digits of u into buf (no NUL); returns the count. */
-static size_t u128_digits(u128 u, char *buf)
+/* Writes the decimal digits of u into buf (no NUL), padded on the left with
+ * zeros to at least `width`; returns the count (at most 20 unpadded). */
+static size_t u64_digits(uint64_t u, char *buf, size_t width)
 {
-    char tmp[48];
-    size_t n = 0;
-    do {
-        tmp[n++] = (char)('0' + (int)(u % 10));
+    size_t n = 1;
+    while (n < 20 && u >= pow10_u64[n])
+        n++;
+    if (n < width)
+        n = width;
+    for (size_t k = n; k-- > 0;) { /* division by the constant 10: a multiply, no divide */
+        buf[k] = (char)('0' + (int)(u % 10));
         u /= 10;
-    } while (u);
-    for (size_t k = 0; k < n; k++)
-        buf[k] = tmp[n - 1 - k];
+    }
     return n;
 }
 
-/* Small-form text of x into buf (at least 96 bytes); returns its length. */
+/* Writes the k fraction digits of r/den (0 <= r < den, den divides 10^k) into
+ * buf by long division; returns k.  Only for k > 19, where r * 10^k / den
+ * may pass 2^64: r * 10 < 10 * 2^63 needs 128 bits. */
+static size_t long_fraction_digits(uint64_t r, uint64_t den, int k, char *buf)
+{
+    u128 rem = r;
+    for (int z = 0; z < k; z++) {
+        rem *= 10;
+        buf[z] = (char)('0' + (int)(rem / den));
+        rem %= den;
+    }
+    assert(rem == 0); /* den divides 10^k: the expansion ends after k digits */
+    return (size_t)k;
+}
+
+/* Small-form text of x into buf (at least 64 bytes); returns its length (< 64).
+ * Longest: "-" + 19 digits + "." + 40 digits, or "-" + 19 + "/" + 19. */
 static size_t format_small(char *buf, bc_num x, int fraction_only)
 {
+    assert(x.den > 0);
     size_t n = 0;
-    u128 mag = x.num < 0 ? -(u128)(i128)x.num : (u128)x.num;
+    /* |num| <= 2^63 and den < 2^63: every magnitude here fits in uint64. */
+    uint64_t mag = x.num < 0 ? -(uint64_t)x.num : (uint64_t)x.num, den = (uint64_t)x.den;
     if (x.num < 0)
         buf[n++] = '-';
-    if (x.den == 1) {
-        n += u128_digits(mag, buf + n);
-        return n;
-    }
-    /* den = 2^i 5^j with max(i, j) <= 18: mag / den = mag * (10^k / den) / 10^k. */
-    int64_t d = x.den;
-    int i2 = 0, i5 = 0;
-    while (d % 2 == 0) {
-        d /= 2;
-        i2++;
-    }
-    while (d % 5 == 0) {
-        d /= 5;
+    if (den == 1)
+        return n + u64_digits(mag, buf + n, 0);
+    /* A terminating decimal needs den = 2^i 5^j; it has k = max(i, j) fraction digits. */
+    int i2 = __builtin_ctzll(den), i5 = 0;
+    uint64_t odd = den >> i2;
+    while (odd % 5 == 0) {
+        odd /= 5;
         i5++;
     }
     int k = i2 > i5 ? i2 : i5;
-    if (fraction_only || d != 1 || k > 18) {
-        n += u128_digits(mag, buf + n);
+    if (fraction_only || odd != 1 || k > 40) {
+        n += u64_digits(mag, buf + n, 0);
         buf[n++] = '/';
-        n += u128_digits((u128)x.den, buf + n);
-        return n;
+        return n + u64_digits(den, buf + n, 0);
     }
-    u128 scaled = mag * (u128)(pow10_u64[k] / (uint64_t)x.den);
-    u128 p = pow10_u64[k];
-    n += u128_digits(scaled / p, buf + n);
+    /* mag/den = q + r/den, and r/den = r * (10^k / den) / 10^k: the fraction
+     * digits are r * 2^(k-i2) * 5^(k-i5), padded to k digits.  gcd(r, den) = 1
+     * and k is least, so the last digit is not zero. */
+    uint64_t q = mag / den, r = mag % den;
+    n += u64_digits(q, buf + n, 0);
     buf[n++] = '.';
-    char frac[24];
-    size_t fn = u128_digits(scaled % p, frac);
-    for (size_t z = fn; z < (size_t)k; z++)
-        buf[n++] = '0';
-    memcpy(buf + n, frac, fn);
-    return n + fn;
+    if (k > 19)
+        return n + long_fraction_digits(r, den, k, buf + n);
+    uint64_t scale = (pow10_u64[k - i5] >> (k - i5)) << (k - i2); /* 5^(k-i5) 2^(k-i2) */
+    assert(scale * den == pow10_u64[k]);
+    return n + u64_digits(r * scale, buf + n, (size_t)k); /* r * scale < 10^k <= 10^19 */
 }
 
 /* Text of a big value; malloc'ed, NULL on failure. */

@@ -24,9 +24,10 @@ static void summary_text(FILE *f, const bc_model *m, const bc_findings *fd, cons
     char g[64];
     bc_num_format(g, sizeof g, m->discount_exact, m->big);
     fprintf(f, "model %s (%s)\n", m->name, source);
-    fprintf(f, "  %d states (%d terminal), %d actions, %lld state-action pairs, %lld transitions\n",
-            (int)m->n_states, (int)fd->n_terminal, (int)m->n_actions, (long long)m->n_pairs,
-            (long long)m->n_trans);
+    fprintf(f, "  %d state%s (%d terminal), %d action%s, %lld state-action pair%s, %lld transition%s\n",
+            (int)m->n_states, m->n_states == 1 ? "" : "s", (int)fd->n_terminal, (int)m->n_actions,
+            m->n_actions == 1 ? "" : "s", (long long)m->n_pairs, m->n_pairs == 1 ? "" : "s",
+            (long long)m->n_trans, m->n_trans == 1 ? "" : "s");
     fprintf(f, "  discount %s, objective %s, ", g, m->objective == BC_MAX ? "max (rewards)" : "min (costs)");
     if (m->horizon > 0)
         fprintf(f, "finite horizon of %d decisions\n", (int)m->horizon);
