@@ -26,7 +26,7 @@ deps:
 deps-test:
 	@build-aux/deps.sh test
 
-$(BUILD)/obj/%.o: %.c src/bellcheck.h $(wildcard src/*_internal.h)
+$(BUILD)/obj/%.o: %.c src/bellcheck.h $(wildcard src/*.h solvers/*.h formats/*.h)
 	@mkdir -p $(dir $@)
 	$(CC) $(CPPFLAGS_ALL) $(CFLAGS) $(WARN) -c $< -o $@
 

@@ -125,15 +125,36 @@ static const char *glpk_code_name(int ret)
     }
 }
 
-/* What the simplex left: return code, solution status, iterations. */
+/* What the simplex left: return code, solution status, iterations, and
+ * where the run that produced it started (warm_policy's kind, 0 = cold). */
 typedef struct {
-    int ret, status, iterations;
+    int ret, status, iterations, warm;
 } lp_outcome;
 
-/* Loads the LP into GLPK, runs the simplex and copies the columns into v
- * (maximising convention, terminal states 0). */
+/* The basis of a policy pi: every v(s) basic, the row of pi(s) tight
+ * (nonbasic at its lower bound), every other row basic.  Its basis matrix
+ * holds I - g P_pi, invertible for discount < 1 and for a terminating pi at
+ * discount 1, and its dual values are pi's expected visit counts, which are
+ * >= 0: the basis is dual feasible, and primal feasible iff pi is optimal.
+ * So the dual simplex starts from it, and needs no step at all when pi is
+ * already optimal. */
+static void set_policy_basis(glp_prob *lp, const bc_model *m, const lp_matrix *a,
+                             const int64_t *policy)
+{
+    for (int j = 1; j <= a->n_cols; j++)
+        glp_set_col_stat(lp, j, GLP_BS);
+    for (int64_t p = 0; p < m->n_pairs; p++)
+        glp_set_row_stat(lp, (int)p + 1, GLP_BS);
+    for (int32_t s = 0; s < m->n_states; s++)
+        if (!m->terminal[s])
+            glp_set_row_stat(lp, (int)policy[s] + 1, GLP_NL);
+}
+
+/* Loads the LP into GLPK, runs the simplex (from the policy basis if warm
+ * is not NULL, else from GLPK's standard basis after presolving) and copies
+ * the columns into v (maximising convention, terminal states 0). */
 static void load_and_solve(const bc_model *m, const bc_solve_opts *o, const lp_matrix *a,
-                           double *v, lp_outcome *out)
+                           const int64_t *warm, int warm_kind, double *v, lp_outcome *out)
 {
     const double sgn = bc_sv_sign(m);
     glp_prob *lp = glp_create_prob();
@@ -147,16 +168,29 @@ static void load_and_solve(const bc_model *m, const bc_solve_opts *o, const lp_m
     for (int64_t p = 0; p < m->n_pairs; p++)
         glp_set_row_bnds(lp, (int)p + 1, GLP_LO, bc_sv_reward(m, sgn, p), 0.0);
     glp_load_matrix(lp, a->n_entries, a->ia, a->ja, a->ar);
+    glp_scale_prob(lp, GLP_SF_AUTO);
     glp_smcp parm;
     glp_init_smcp(&parm);
     parm.msg_lev = GLP_MSG_OFF;
-    parm.presolve = GLP_ON;
     if (o->max_seconds > 0)
         parm.tm_lim = o->max_seconds * 1000 < INT_MAX ? (int)(o->max_seconds * 1000) : INT_MAX;
     if (o->max_iter > 0)
         parm.it_lim = o->max_iter < INT_MAX ? (int)o->max_iter : INT_MAX;
-    glp_scale_prob(lp, GLP_SF_AUTO);
-    out->ret = glp_simplex(lp, &parm);
+    out->ret = -1;
+    out->warm = warm ? warm_kind : 0;
+    if (warm) { /* the presolver would discard the basis */
+        set_policy_basis(lp, m, a, warm);
+        parm.presolve = GLP_OFF;
+        parm.meth = GLP_DUALP;
+        out->ret = glp_simplex(lp, &parm);
+    }
+    if (!warm || out->ret == GLP_EBADB || out->ret == GLP_ESING || out->ret == GLP_ECOND) {
+        glp_std_basis(lp);
+        parm.presolve = GLP_ON;
+        parm.meth = GLP_PRIMAL;
+        out->warm = 0;
+        out->ret = glp_simplex(lp, &parm);
+    }
     out->status = glp_get_status(lp);
     out->iterations = glp_get_it_cnt(lp);
     for (int32_t s = 0; s < m->n_states; s++)
@@ -164,10 +198,34 @@ static void load_and_solve(const bc_model *m, const bc_solve_opts *o, const lp_m
     glp_delete_prob(lp);
 }
 
+/* A starting policy for the simplex: value iteration's (cheap, and almost
+ * always optimal), or at discount 1, when that fails, any terminating one.
+ * Returns 1 (value iteration's) or 2 (a terminating one) with policy filled,
+ * 0 if there is none (then GLPK starts cold), -1 when out of memory.  It only saves simplex steps: GLPK's own
+ * optimality test decides the answer. */
+static int warm_policy(const bc_model *m, const bc_solve_opts *o, int64_t *policy)
+{
+    bc_solve_opts quick = *o;
+    bc_solution vi;
+    quick.max_iter = m->discount < 1.0 ? 100000 : 10000; /* at discount 1 it may diverge */
+    bc_solve_status st = bc_solve_vi(m, &quick, &vi);
+    if (st == BC_SOLVE_NOMEM)
+        return -1;
+    int found = st == BC_SOLVE_OK || (st == BC_SOLVE_NOT_CONVERGED && m->discount < 1.0);
+    if (found)
+        memcpy(policy, vi.policy, (size_t)m->n_states * sizeof *policy);
+    bc_solution_free(&vi);
+    if (found)
+        return 1;
+    int32_t bad;
+    int64_t n_bad = bc_sv_proper_policy(m, NULL, policy, &bad);
+    return n_bad < 0 ? -1 : n_bad == 0 ? 2 : 0;
+}
+
 /* load_and_solve with GLPK's output off and its internal errors caught.
  * Returns 0, or -1 if GLPK raised an internal error. */
-static int run_glpk(const bc_model *m, const bc_solve_opts *o, const lp_matrix *a, double *v,
-                    lp_outcome *out)
+static int run_glpk(const bc_model *m, const bc_solve_opts *o, const lp_matrix *a,
+                    const int64_t *warm, int warm_kind, double *v, lp_outcome *out)
 {
     jmp_buf env;
     int old_term = glp_term_out(GLP_OFF); /* GLPK must never print */
@@ -178,7 +236,7 @@ static int run_glpk(const bc_model *m, const bc_solve_opts *o, const lp_matrix *
         return -1;
     }
     glp_error_hook(glpk_error_hook, &env);
-    load_and_solve(m, o, a, v, out);
+    load_and_solve(m, o, a, warm, warm_kind, v, out);
     glp_error_hook(NULL, NULL);
     glp_term_out(old_term);
     return 0;
@@ -209,7 +267,7 @@ static bc_solve_status judge_outcome(const lp_outcome *r, bc_solution *sol)
 }
 
 /* Bound, policy and message from the values GLPK returned. */
-static bc_solve_status conclude(const bc_model *m, bc_solution *sol, bc_solve_status st)
+static bc_solve_status conclude(const bc_model *m, bc_solution *sol, bc_solve_status st, int warm)
 {
     const double sgn = bc_sv_sign(m), g = m->discount;
     bc_sv_scales sc;
@@ -232,7 +290,10 @@ static bc_solve_status conclude(const bc_model *m, bc_solution *sol, bc_solve_st
         }
     }
     int n = snprintf(sol->message, sizeof sol->message,
-                     "linear program (GLPK simplex): %lld iterations%s, Bellman residual %.3g; %s",
+                     "linear program (GLPK simplex%s): %lld iterations%s, Bellman residual %.3g; %s",
+                     warm == 1   ? ", from value iteration's policy"
+                     : warm == 2 ? ", from a terminating policy"
+                                 : "",
                      (long long)sol->iterations,
                      st == BC_SOLVE_NOT_CONVERGED ? " (stopped by the limit)" : "", resid,
                      g < 1.0 ? "proven |V - V*| <= residual/(1-g) = " : "no bound is proven at discount 1");
@@ -267,7 +328,16 @@ bc_solve_status bc_solve_lp(const bc_model *m, const bc_solve_opts *o, bc_soluti
         return bc_sv_finish(m, sol, BC_SOLVE_OK, t0);
     }
     lp_outcome r;
-    if (run_glpk(m, o, &a, sol->values, &r) < 0) {
+    int have_warm = warm_policy(m, o, sol->policy);
+    if (have_warm < 0) {
+        lp_matrix_free(&a);
+        snprintf(sol->message, sizeof sol->message, "linear program: out of memory");
+        return bc_sv_finish(m, sol, BC_SOLVE_NOMEM, t0);
+    }
+    bc_solve_opts rest = *o; /* GLPK gets the time value iteration left */
+    if (o->max_seconds > 0)
+        rest.max_seconds = fmax(o->max_seconds - (bc_sv_now() - t0), 1e-3);
+    if (run_glpk(m, &rest, &a, have_warm ? sol->policy : NULL, have_warm, sol->values, &r) < 0) {
         lp_matrix_free(&a);
         memset(sol->values, 0, (size_t)m->n_states * sizeof *sol->values);
         snprintf(sol->message, sizeof sol->message,
@@ -278,6 +348,6 @@ bc_solve_status bc_solve_lp(const bc_model *m, const bc_solve_opts *o, bc_soluti
     sol->iterations = r.iterations;
     st = judge_outcome(&r, sol);
     if (st != BC_SOLVE_FAILED)
-        st = conclude(m, sol, st);
+        st = conclude(m, sol, st, r.warm);
     return bc_sv_finish(m, sol, st, t0);
 }

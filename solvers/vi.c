@@ -17,7 +17,8 @@
  * leaves to states whose value is pinned at 0.
  *
  * Discount 1 (total reward until a terminal state): no such bound exists.
- * Value iteration from v = 0 runs until max |Tv - v| <= tol and reports
+ * Value iteration from v = 0 runs until an estimate of its error (from the
+ * observed rate of convergence) and max |Tv - v| are below tol, and reports
  * bound = -1 (nothing proven).  From 0 it converges to the best value over
  * ALL policies, counting a zero-reward cycle as worth 0; bellcheck counts
  * a policy that never terminates as worth minus infinity, so when only
@@ -150,8 +151,29 @@ static bc_solve_status vi_discounted(const bc_model *m, const bc_solve_opts *o, 
     return bc_sv_finish(m, sol, st, t0);
 }
 
-/* Discount 1: plain Gauss–Seidel from 0 until the Bellman residual is below
- * tol.  Nothing is proven (bound -1). */
+/* Discount 1 has no contraction factor to bound the error, so the stopping
+ * rule estimates one: rho, the geometric mean of the ratio of successive
+ * sweep changes over the last RATE_WINDOW sweeps.  For a sequence that
+ * converges linearly at rate rho the error left is about change rho/(1-rho)
+ * (common practice; an estimate, not a proof).  A residual below tol alone
+ * would not do: the error is the residual times the expected number of
+ * steps to termination, which may be large. */
+#define RATE_WINDOW 10
+
+static double error_estimate(const double *hist, int64_t sweeps, double change, double *rho)
+{
+    *rho = 1.0;
+    if (change == 0.0)
+        return 0.0;
+    if (sweeps <= RATE_WINDOW)
+        return INFINITY;
+    double old = hist[(sweeps - RATE_WINDOW) % (RATE_WINDOW + 1)];
+    *rho = old > 0.0 ? pow(change / old, 1.0 / RATE_WINDOW) : 1.0;
+    return *rho < 1.0 ? change * *rho / (1.0 - *rho) : INFINITY;
+}
+
+/* Discount 1: Gauss–Seidel from 0 until the estimated error and the Bellman
+ * residual are below tol.  Nothing is proven (bound -1). */
 static bc_solve_status vi_total(const bc_model *m, const bc_solve_opts *o, bc_solution *sol,
                                 double *tv, double t0)
 {
@@ -161,13 +183,15 @@ static bc_solve_status vi_total(const bc_model *m, const bc_solve_opts *o, bc_so
     bc_sv_scales sc;
     bc_sv_scales_of(m, &sc);
     int64_t sweeps = 0;
-    double resid = INFINITY, vmax = 0.0;
+    double hist[RATE_WINDOW + 1] = {0};
+    double resid = INFINITY, vmax = 0.0, est = INFINITY, rho = 1.0;
     bc_solve_status st;
     for (;;) {
         double lo, hi;
         gs_sweep(m, sgn, v, &lo, &hi);
         sweeps++;
         double change = fmax(fabs(lo), fabs(hi));
+        hist[sweeps % (RATE_WINDOW + 1)] = change;
         int limit = sweeps >= max_sweeps || bc_sv_out_of_time(o, t0);
         if (!isfinite(change)) {
             snprintf(sol->message, sizeof sol->message,
@@ -176,12 +200,13 @@ static bc_solve_status vi_total(const bc_model *m, const bc_solve_opts *o, bc_so
             sol->iterations = sweeps;
             return bc_sv_finish(m, sol, BC_SOLVE_FAILED, t0);
         }
-        if (change > o->tol && !limit)
+        est = error_estimate(hist, sweeps, change, &rho);
+        if ((change > o->tol || est > o->tol) && !limit)
             continue;
         double dmin, dmax;
         vmax = bc_sv_bellman(m, sgn, v, tv, &dmin, &dmax);
         resid = fmax(fabs(dmin), fabs(dmax));
-        st = resid <= o->tol ? BC_SOLVE_OK : BC_SOLVE_NOT_CONVERGED;
+        st = resid <= o->tol && est <= o->tol ? BC_SOLVE_OK : BC_SOLVE_NOT_CONVERGED;
         if (st == BC_SOLVE_OK || limit)
             break;
     }
@@ -209,9 +234,10 @@ static bc_solve_status vi_total(const bc_model *m, const bc_solve_opts *o, bc_so
         return bc_sv_finish(m, sol, BC_SOLVE_FAILED, t0);
     }
     snprintf(sol->message, sizeof sol->message,
-             "value iteration (discount 1): %lld sweeps, Bellman residual %.3g; "
-             "no error bound is proven at discount 1",
-             (long long)sweeps, resid);
+             "value iteration (discount 1): %lld sweeps%s, Bellman residual %.3g, estimated "
+             "error %.3g (rate %.4g); no error bound is proven at discount 1",
+             (long long)sweeps, st == BC_SOLVE_NOT_CONVERGED ? " (stopped by the limit)" : "", resid,
+             est, rho);
     return bc_sv_finish(m, sol, st, t0);
 }
 

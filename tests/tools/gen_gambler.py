@@ -29,7 +29,8 @@ def gambler(goal, p):
     q = 1 - p
     ps, qs = _dec(p), _dec(q)
     out = [
-        "# Sutton, R. S. & Barto, A. G., Reinforcement Learning: An Introduction,",
+        "# sutton-barto-4.3-gambler — the gambler's problem, goal %d, heads %s (textbook example)." % (goal, ps),
+        "# Source: Sutton, R. S. & Barto, A. G., Reinforcement Learning: An Introduction,",
         "# 2nd ed., MIT Press, 2018, Example 4.3 (Gambler's Problem, Figure 4.3).",
         "# Capital c1..c%d; terminal states broke (capital 0) and win (capital %d)." % (goal - 1, goal),
         "# stake<k> wins k with probability %s (heads) and loses k otherwise; reaching" % ps,

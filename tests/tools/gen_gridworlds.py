@@ -27,7 +27,8 @@ def gridworld_3_5():
     size = 5
     special = {(0, 1): ((4, 1), 10), (0, 3): ((2, 3), 5)}  # A -> A', B -> B'
     out = [
-        "# Sutton, R. S. & Barto, A. G., Reinforcement Learning: An Introduction,",
+        "# sutton-barto-3.5-gridworld — the 5x5 gridworld with jumps A -> A' and B -> B' (textbook example).",
+        "# Source: Sutton, R. S. & Barto, A. G., Reinforcement Learning: An Introduction,",
         "# 2nd ed., MIT Press, 2018, Example 3.5 (Gridworld, Figure 3.2); its optimal",
         "# values are shown in Figure 3.5 (Example 3.8).  Figure numbers from memory.",
         "# 5x5 grid, states r<row>c<col>, row 0 at the top.  From A = r0c1 every action",
@@ -58,7 +59,8 @@ def gridworld_4_1():
     size = 4
     corners = {(0, 0), (size - 1, size - 1)}
     out = [
-        "# Sutton, R. S. & Barto, A. G., Reinforcement Learning: An Introduction,",
+        "# sutton-barto-4.1-gridworld — the 4x4 gridworld with terminal corners (textbook example).",
+        "# Source: Sutton, R. S. & Barto, A. G., Reinforcement Learning: An Introduction,",
         "# 2nd ed., MIT Press, 2018, Example 4.1 (the 4x4 gridworld of Figure 4.1).",
         "# States r<row>c<col>, row 0 at the top; the two shaded corners r0c0 and r3c3",
         "# are terminal (the book draws one terminal state twice).  Every move has",

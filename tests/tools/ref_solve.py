@@ -10,16 +10,26 @@ rational arithmetic (small models only) and continues policy iteration
 exactly if a floating-point tie hid a better action; --fractions prints the
 exact values as "p/q" strings (implies --exact).
 
-Method (common practice; see Puterman, Markov Decision Processes, 1994,
-section 6.4 for policy iteration and section 7.2 for the total-reward case):
-policy iteration, evaluation by a sparse direct solve, switching an action
-only on strict improvement, until the policy is stable; then one Bellman
-backup must reproduce the values.  objective min is solved as max of the
-negated rewards.  Discount 1: the first policy is a terminating one (each
+Method (common practice; policy iteration as in Puterman, Markov Decision
+Processes, 1994, chapter 6, from memory): evaluation by a sparse direct
+solve, an action switched only on strict improvement, until the policy is
+stable; then one Bellman backup must reproduce the values.  objective min is
+solved as max of the negated rewards.  A finite horizon is solved by
+backward induction (values of stage 0).
+
+Discount 1: the optimum is taken over the policies that reach a terminal
+state with probability 1; a policy that never terminates is worth minus
+infinity (plus infinity for costs), as bellcheck defines it, even on a loop
+of zero reward.  Policy iteration starts from a terminating policy (each
 state takes an action with a successor one layer closer to a terminal
-state), and states that can stay forever on zero-reward pairs get an extra
-"stay" option of value 0, so that zero-reward loops are valued correctly.
-A finite horizon is solved by backward induction (values of stage 0).
+state).  Why the result is that optimum (stochastic shortest paths, common
+practice): if an improved policy left a closed set C for ever, summing its
+improvement over C weighted by C's stationary distribution shows C's mean
+reward is > 0 (a positive cycle: unbounded model, evaluation fails) or = 0
+with no strict switch in C, so C was already closed under the previous,
+terminating policy, a contradiction.  At the end V = T V with V the value of
+a terminating policy; for the best terminating policy mu*, T_mu* V <= V, and
+iterating T_mu* converges to its value, so V* <= V <= V*.
 
 Exit status: 0 ok, 2 the model cannot be read, 3 the reference cannot solve it
 (unbounded or non-terminating discount-1 model, no convergence).
@@ -38,11 +48,14 @@ NAME_RE = re.compile(r"[A-Za-z_][A-Za-z0-9_.:-]*\Z")
 NUM_RE = re.compile(r"[+-]?(\d+/\d+|(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?)\Z")
 DIRECTIVES = ("bell", "name", "discount", "objective", "horizon", "initial",
               "terminal", "states", "actions")
-STAY_CODE = -2  # policy entry: stay forever on zero-reward pairs (discount 1 only)
 
 
 class ModelError(Exception):
     """A problem with the model text, with its line number."""
+
+
+class SolveError(Exception):
+    """The reference cannot solve this model."""
 
 
 class Model:
@@ -300,23 +313,8 @@ def _layers_to_terminal(m):
     return chosen
 
 
-def _zero_stay_set(m):
-    """For discount 1: states that can stay forever on pairs of reward 0.
-
-    Largest set S of live states such that each has a pair of exact expected
-    reward 0 whose successors (probability > 0) all lie in S."""
-    live = {s for s in range(len(m.states)) if s not in m.terminal}
-    while True:
-        keep = {s for s in live if any(
-            m.pairs[k][2] == 0 and all(n in live for n, p in m.pairs[k][3] if p > 0)
-            for k in m.state_pairs[s])}
-        if keep == live:
-            return live
-        live = keep
-
-
 def _evaluate(a, policy):
-    """Values of a policy (pair per state, STAY, or -1 for terminal states)."""
+    """Values of a policy (pair per state, -1 for terminal states)."""
     n = a.n
     rows = np.where(a.live & (policy >= 0))[0]
     v = np.zeros(n)
@@ -339,48 +337,36 @@ def _evaluate(a, policy):
     return v
 
 
-class SolveError(Exception):
-    """The reference cannot solve this model."""
-
-
 def _first_policy(m, a):
     policy = np.full(a.n, -1, dtype=np.int64)
-    stay = set()
     if a.gamma == 1.0:
         chosen = _layers_to_terminal(m)
-        stay = _zero_stay_set(m)
         for s in range(a.n):
             if not a.live[s]:
                 continue
-            if s in chosen:
-                policy[s] = chosen[s]
-            elif s in stay:
-                policy[s] = STAY_CODE
-            else:
-                raise SolveError("state '%s' cannot reach a terminal state and cannot stay at "
-                                 "reward 0: its optimal value is infinite" % m.states[s])
+            if s not in chosen:
+                raise SolveError("state '%s' reaches no terminal state under any policy: its "
+                                 "value is infinite" % m.states[s])
+            policy[s] = chosen[s]
     else:
         for s in range(a.n):
             if a.live[s]:
                 policy[s] = m.state_pairs[s][0]
-    return policy, stay
+    return policy
 
 
-
-def _improve(m, a, v, policy, stay):
+def _improve(m, a, v, policy):
     """One improvement step; returns the number of states that switched."""
     q = a.q(v)
     scale = 1e-12 * max(1.0, float(np.max(np.abs(v))) if len(v) else 1.0)
     changed = 0
     for s in np.where(a.live)[0]:
         cur = policy[s]
-        cur_q = 0.0 if cur == STAY_CODE else q[cur]
+        cur_q = q[cur]
         best, best_q = cur, cur_q
         for k in m.state_pairs[s]:
             if q[k] > best_q + scale:
                 best, best_q = k, q[k]
-        if s in stay and 0.0 > best_q + scale:
-            best = STAY_CODE
         if best != cur:
             policy[s] = best
             changed += 1
@@ -407,25 +393,23 @@ def solve_float(m, max_steps=10000):
     a = Arrays(m)
     if m.horizon:
         return _backward(m, a) + (a,)
-    policy, stay = _first_policy(m, a)
+    policy = _first_policy(m, a)
     for _ in range(max_steps):
-        v = _evaluate(a, np.where(policy == STAY_CODE, -1, policy))
-        if _improve(m, a, v, policy, stay) == 0:
+        v = _evaluate(a, policy)
+        if _improve(m, a, v, policy) == 0:
             break
     else:
         raise SolveError("policy iteration did not converge in %d steps" % max_steps)
-    _bellman_check(m, a, v, stay)
+    _bellman_check(m, a, v)
     return v, policy, a
 
 
-def _bellman_check(m, a, v, stay):
+def _bellman_check(m, a, v):
     """One Bellman backup must give back v (up to rounding)."""
     q = a.q(v)
     tv = np.zeros(a.n)
     for s in np.where(a.live)[0]:
         tv[s] = max(q[k] for k in m.state_pairs[s])
-        if s in stay:
-            tv[s] = max(tv[s], 0.0)
     res = float(np.max(np.abs(tv - v))) if a.n else 0.0
     scale = max(1.0, float(np.max(np.abs(v))))
     print("ref_solve: Bellman residual %.3g (values up to %.6g)" % (res, scale), file=sys.stderr)
@@ -477,7 +461,7 @@ def _exact_evaluate(m, policy, sign):
     return v
 
 
-def solve_exact(m, policy, stay, max_steps=1000):
+def solve_exact(m, policy, max_steps=1000):
     """Exact policy iteration from the float policy: exact values (max sense)."""
     if m.horizon:
         raise SolveError("--exact does not handle a finite horizon")
@@ -496,8 +480,6 @@ def solve_exact(m, policy, stay, max_steps=1000):
                 q = sign * rew + m.discount * sum(p * v[nx] for nx, p in succ)
                 if q > best_q:
                     best, best_q = k, q
-            if s in stay and best_q < 0:
-                best, best_q = STAY_CODE, Fraction(0)
             if best != policy[s]:
                 policy[s], changed = best, True
         if not changed:
@@ -525,9 +507,8 @@ def main(argv):
     sign = -1.0 if m.objective == "min" else 1.0
     try:
         v, policy, a = solve_float(m)
-        stay = _zero_stay_set(m) if a.gamma == 1.0 and not m.horizon else set()
         if "--exact" in flags or "--fractions" in flags:
-            ve, policy = solve_exact(m, policy, stay)
+            ve, policy = solve_exact(m, policy)
             v = np.array([float(x) for x in ve])
             exact_vals = [int(sign) * x for x in ve]
     except SolveError as e:
@@ -541,7 +522,7 @@ def main(argv):
         pol = {}
         for s, name in enumerate(m.states):
             k = policy[s]
-            pol[name] = None if k == -1 else ("(stay)" if k == STAY_CODE else m.actions[m.pairs[k][1]])
+            pol[name] = None if k == -1 else m.actions[m.pairs[k][1]]
         out = {"values": values, "policy": pol}
     else:
         out = values

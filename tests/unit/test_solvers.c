@@ -326,6 +326,32 @@ static void test_discount_one_cycles(void)
     bc_model_free(m);
 }
 
+/* Discount 1, slow termination, by hand: a: wait +1 -> a 99/100, T 1/100.
+ * V(a) = 1 / (1/100) = 100; the expected number of steps is 100, so a value
+ * iteration stopped on a residual below tol alone would be off by about
+ * 100 tol.  (Regression: vi once stopped on the residual.) */
+static void test_discount_one_slow(void)
+{
+    static const char *const st[] = {"a", "T"};
+    static const char *const ac[] = {"wait"};
+    static const pair_spec pairs[] = {
+        {0, 0, 1, 1, 2, {0, 1}, {99, 1}, {100, 100}},
+    };
+    model_spec sp = {st, 2, ac, 1, "01", pairs, 1, 1, 1, BC_MAX, 0};
+    bc_model *m = make_model(&sp);
+    bc_solution sol;
+    bc_solve(m, BC_METHOD_VI, NULL, &sol);
+    CHECK(sol.status == BC_SOLVE_OK && fabs(sol.values[0] - 100.0) <= 2e-9,
+          "discount 1, slow exit: vi V(a) = 100 within 2 tol");
+    bc_solution_free(&sol);
+    bc_solve(m, BC_METHOD_PI, NULL, &sol);
+    CHECK(sol.status == BC_SOLVE_OK && fabs(sol.values[0] - 100.0) <= sol.bound &&
+              sol.bound < 1e-10,
+          "discount 1, slow exit: pi V(a) = 100 within its bound (residual * 100 steps)");
+    bc_solution_free(&sol);
+    bc_model_free(m);
+}
+
 /* Finite horizon H = 2, discount 1, by hand.  x: a +1 -> x; b 0 -> y.
  * y: c +3 -> y 1/2, x 1/2.  V_2 = 0; V_1(x) = max(1, 0) = 1 (a), V_1(y) = 3;
  * V_0(x) = max(1 + 1, 0 + 3) = 3 (b), V_0(y) = 3 + 3/2 + 1/2 = 5. */
@@ -422,6 +448,7 @@ int main(void)
     test_min_objective();
     test_discount_one_zero_loop();
     test_discount_one_cycles();
+    test_discount_one_slow();
     test_backward();
     test_agreement(9, 10, 1e-9, "g=0.9");
     test_agreement(999, 1000, 1e-8, "g=0.999");
