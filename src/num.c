@@ -547,7 +547,7 @@ static size_t format_small(char *buf, bc_num x, int fraction_only)
     /* mag/den = q + r/den, and r/den = r * (10^k / den) / 10^k: the fraction
      * digits are r * 2^(k-i2) * 5^(k-i5), padded to k digits.  gcd(r, den) = 1
      * and k is least, so the last digit is not zero. */
-    uint64_t q = mag / den, r = mag % den;
+    uint64_t q = mag < den ? 0 : mag / den, r = mag < den ? mag : mag % den; /* probabilities: no divide */
     n += u64_digits(q, buf + n, 0);
     buf[n++] = '.';
     if (k > 19)

@@ -129,7 +129,7 @@ int bc_report_solve_json(FILE *f, const bc_model *m, const bc_solution *sol)
 
 int bc_report_compare_text(FILE *f, const bc_model *m, const bc_comparison *c)
 {
-    fprintf(f, "model %s: %d states; every method solved it independently\n", m->name,
+    fprintf(f, "model %s: %d states, solved by each method in turn\n", m->name,
             (int)m->n_states);
     fprintf(f, "%-8s %-14s %-20s %-12s %-10s\n", "method", "status", "value at initial", "bound",
             "seconds");
@@ -145,13 +145,15 @@ int bc_report_compare_text(FILE *f, const bc_model *m, const bc_comparison *c)
         if (s->status != BC_SOLVE_OK)
             fprintf(f, "         %s\n", s->message);
     }
-    fprintf(f, "largest disagreement between methods: %.3g", c->max_disagreement);
-    if (c->worst_state >= 0)
-        fprintf(f, " (worst excess at state %s, %s vs %s, allowed %.3g)",
-                bc_names_get(m->state_names, c->worst_state),
-                bc_method_name(c->sol[c->worst_i].method), bc_method_name(c->sol[c->worst_j].method),
-                c->allowed);
-    fputc('\n', f);
+    fprintf(f, "largest disagreement between two methods at one state: %.3g\n",
+            c->max_disagreement);
+    if (c->worst_state >= 0) {
+        const bc_solution *a = &c->sol[c->worst_i], *b = &c->sol[c->worst_j];
+        fprintf(f, "closest to its allowance: state %s, %s vs %s differ by %.3g, allowed %.3g\n",
+                bc_names_get(m->state_names, c->worst_state), bc_method_name(a->method),
+                bc_method_name(b->method),
+                fabs(a->values[c->worst_state] - b->values[c->worst_state]), c->allowed);
+    }
     fprintf(f, "verdict: %s\n", c->agree ? "the methods agree within their bounds"
                                          : "the methods DISAGREE beyond their bounds, or one failed");
     return ferror(f) ? -1 : 0;
