@@ -2,7 +2,7 @@
 /*
  * SPDX-License-Identifier: GPL-3.0-or-later
  *
- * What makes the round trip exact (the walk in out_buffer.c, shared with the
+ * What makes the round trip exact (the walk in model_write.c, shared with the
  * JSON writer, holds it, with the spelling of every directive; this file adds
  * what only text needs):
  *  - `states` and `actions` lines fix both orders (terminal and unused names included);
@@ -15,7 +15,7 @@
  * (the rest of the line is a comment): those bytes become spaces.
  */
 #include "bellcheck.h"
-#include "out_buffer.h"
+#include "model_write.h"
 
 #include <stdio.h>
 

@@ -10,11 +10,11 @@
  * no reader ever rounds it; the horizon, an integer, is a JSON number.
  *
  * The walk over the model and the spelling of every key and bracket are in
- * out_buffer.c, shared with the text writer; this file adds what only JSON
+ * model_write.c, shared with the text writer; this file adds what only JSON
  * needs: escaped strings, numbers in quotes, the optional "name".
  */
 #include "bellcheck.h"
-#include "out_buffer.h"
+#include "model_write.h"
 
 #include <stdio.h>
 #include <string.h>

@@ -1,4 +1,4 @@
-/* out_buffer.h — what the two model writers share (internal): the block buffer, and one walk over the model. */
+/* out_buffer.h — the block buffer the model writers write through (internal). */
 /* SPDX-License-Identifier: GPL-3.0-or-later */
 #ifndef BC_OUT_BUFFER_H
 #define BC_OUT_BUFFER_H
@@ -11,12 +11,7 @@
  * handed over in blocks of BC__OUTBUF_BLOCK bytes.  The struct is visible and
  * the hot appenders are inline, so a piece costs a compare and a memcpy; only
  * block boundaries call into out_buffer.c.
- *
- * Why one walk: the .bell text and the JSON form carry the same model, and
- * what makes a round trip exact (which names, which numbers, which entries
- * may be left out) is the same for both.  bc__write_model holds that once,
- * with both spellings side by side in one table; a writer adds only what
- * takes code (escaping a name, quoting a number, the label).
+
  */
 #include "bellcheck.h"
 
@@ -66,19 +61,5 @@ static inline void bc__outbuf_char(bc__outbuf *o, char ch)
         bc__outbuf_flush(o);
     o->buf[o->n++] = ch;
 }
-
-/* The two forms a model is written in: a column of the spelling table in out_buffer.c. */
-typedef enum { BC__FORM_TEXT = 0, BC__FORM_JSON = 1 } bc__model_form;
-
-/* What a writer spells by code rather than by the table: names, numbers, the label. */
-typedef struct {
-    bc__model_form form;
-    void (*name)(bc__outbuf *o, const char *name);   /* a state or action name */
-    void (*num)(bc__outbuf *o, bc_num x);            /* an exact number */
-    void (*label)(bc__outbuf *o, const char *label); /* the model's label entry; label may be NULL */
-} bc__model_format;
-
-/* Writes m to f in the given form; 0, or -1 on out of memory or a failed write. */
-int bc__write_model(const bc_model *m, FILE *f, const bc__model_format *fmt);
 
 #endif
