@@ -342,6 +342,92 @@ int bc_compare(const bc_model *m, const bc_solve_opts *o, bc_comparison *c);
 void bc_comparison_free(bc_comparison *c); /* frees every solution */
 
 /* ------------------------------------------------------------------------ */
+/* Learned agents: Q-tables and policies (formats/agent_*.c)                */
+/* ------------------------------------------------------------------------ */
+
+/* A Q-table laid over the model's state-action pairs. */
+typedef struct {
+    double *q;           /* [n_pairs] Q-value of each pair; NAN for a pair of a state the table skips */
+    uint8_t *present;    /* [n_states] 1 if the table covers the state (terminal states: 1) */
+    int32_t n_missing;   /* non-terminal states the table does not cover (only with BC_MISSING_SKIP) */
+} bc_qtable;
+
+/* A policy laid over the model's pairs: prob[p] is the probability of pair p
+ * in its state; over the pairs of a covered non-terminal state they sum to 1. */
+typedef struct {
+    double *prob;        /* [n_pairs] */
+    uint8_t *present;    /* [n_states] 1 if the policy covers the state (terminal states: 1) */
+    int32_t n_missing;   /* non-terminal states not covered (only with BC_MISSING_SKIP) */
+    int deterministic;   /* 1 if every covered state has one pair of probability 1 */
+} bc_policy;
+
+typedef enum { BC_MISSING_ERROR = 0, BC_MISSING_SKIP = 1 } bc_missing_mode;
+
+/* Reads a Q-table for m: CSV (wide `state,<action>...` or long `state,action,q`,
+ * told apart by the header), NPY (shape (states, actions) in the model's orders,
+ * NaN where a state lacks the action) or JSON {"q": {state: {action: value}}};
+ * the format is chosen by content.  NULL on error (errors in d, with file:row:column). */
+bc_qtable *bc_read_qtable(const char *path, const bc_model *m, bc_missing_mode missing, bc_diag *d);
+/* Reads a policy for m: CSV `state,action` or `state,action,prob`, NPY integer
+ * array of action indices (shape (states,)), or JSON {"policy": {state: action}}. NULL on error. */
+bc_policy *bc_read_policy(const char *path, const bc_model *m, bc_missing_mode missing, bc_diag *d);
+void bc_qtable_free(bc_qtable *q);  /* NULL is allowed */
+void bc_policy_free(bc_policy *p);  /* NULL is allowed */
+/* Allocates an empty Q-table / policy for m (every state present, values 0). NULL if out of memory. */
+bc_qtable *bc_qtable_alloc(const bc_model *m);
+bc_policy *bc_policy_alloc(const bc_model *m);
+
+/* ------------------------------------------------------------------------ */
+/* Scoring a learned agent against the optimum (solvers/score*.c)           */
+/* ------------------------------------------------------------------------ */
+
+typedef struct {
+    double discount;     /* discount to score under; NAN = the model's */
+    double q_discount;   /* discount under which the Q-table's residual is measured; NAN = `discount` */
+    int ties_worst;      /* 1: among tied greedy actions, evaluate the worst choice (exactly) */
+    bc_solve_opts solve; /* for the optimum */
+} bc_score_opts;
+
+void bc_score_opts_default(bc_score_opts *o); /* model's discounts, ties by action order */
+
+/* Everything `score` reports.  Values are in the model's own sign (costs for
+ * objective min); regrets are >= 0 and measured in the direction of the
+ * objective (V* - V for max, V - V* for min).  A trap state's value is
+ * -INFINITY for max (+INFINITY for min) and its regret +INFINITY. */
+typedef struct {
+    bc_solution optimum;       /* V*, its policy and proven bound */
+    double discount;           /* the scoring discount actually used */
+    double *agent_prob;        /* [n_pairs] the agent's policy (greedy from Q, or as given) */
+    int32_t n_tied;            /* states whose greedy maximum is tied (Q-table only) */
+    double *values;            /* [n_states] V of the agent's policy */
+    double value_initial;      /* sum_s initial(s) V(s) (infinite if a trap has initial mass) */
+    double optimal_initial;    /* sum_s initial(s) V*(s) */
+    double regret_initial;     /* regret at the initial distribution */
+    double regret_max_state;   /* largest single-state regret over covered states */
+    int32_t worst_state;       /* where it occurs; -1 if none */
+    double *state_regret;      /* [n_states] per-state regret (NAN for states not covered) */
+    double eval_bound;         /* bound on the error of `values` from the linear solve */
+    int has_q;                 /* 1 when scored from a Q-table */
+    double residual;           /* max |T Q - Q| over the table's pairs, under q_discount (NAN without Q) */
+    double q_error;            /* max |Q - Q*| (NAN without Q) */
+    double regret_bound;       /* a-priori regret bound implied by the residual (NAN if none applies) */
+    double agreement_states;   /* share of covered non-terminal states whose agent action is optimal */
+    double agreement_weighted; /* the same weighted by the agent's discounted visit distribution */
+    int32_t n_traps;           /* discount 1: states from which the agent never reaches a terminal state */
+    int32_t *traps;            /* [n_traps] */
+    double reach_probability;  /* discount 1: probability the agent reaches a terminal state from the initial distribution */
+    int32_t n_wrong;           /* covered non-terminal states whose agent action is not optimal */
+    int32_t *by_regret;        /* [n_states] state indices sorted by decreasing regret (for --top) */
+    char message[256];
+} bc_score;
+
+/* Scores an agent given by a Q-table (q) or a policy (p; exactly one of them
+ * non-NULL) against the optimum of m.  0, or -1 with out->message set. */
+int bc_score_compute(const bc_model *m, const bc_qtable *q, const bc_policy *p,
+                     const bc_score_opts *o, bc_score *out);
+void bc_score_free(bc_score *s); /* frees every array */
+
+/* ------------------------------------------------------------------------ */
 /* Analyses (src/)                                                          */
 /* ------------------------------------------------------------------------ */
 
