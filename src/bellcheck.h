@@ -427,6 +427,27 @@ int bc_score_compute(const bc_model *m, const bc_qtable *q, const bc_policy *p,
                      const bc_score_opts *o, bc_score *out);
 void bc_score_free(bc_score *s); /* frees every array */
 
+/* Release gates on a score.  A limit that is NAN is not set. */
+typedef struct {
+    double max_regret;          /* regret at the initial distribution */
+    int max_regret_is_percent;  /* max_regret is a percentage of |V*(initial)| */
+    double max_state_regret;    /* largest single-state regret */
+    double max_residual;        /* Bellman residual of the Q-table */
+    double min_agreement;       /* share of states acting optimally, 0..1 */
+} bc_gate_limits;
+
+typedef struct {
+    const char *name; /* "max-regret", "max-state-regret", "max-residual", "min-agreement" */
+    double limit;     /* in the unit of value (a percentage limit is converted to an absolute one) */
+    double value;
+    int passed;
+} bc_gate;
+
+void bc_gate_limits_none(bc_gate_limits *l); /* every limit unset */
+/* Evaluates the set limits against s into out[0..n); returns n (at most 4).
+ * A gate whose value is undefined (e.g. a residual without a Q-table) fails. */
+int bc_score_gates(const bc_score *s, const bc_gate_limits *l, bc_gate out[4]);
+
 /* ------------------------------------------------------------------------ */
 /* Analyses (src/)                                                          */
 /* ------------------------------------------------------------------------ */
@@ -464,6 +485,13 @@ int bc_report_solve_json(FILE *f, const bc_model *m, const bc_solution *sol);
 /* Text and JSON reports of --compare. */
 int bc_report_compare_text(FILE *f, const bc_model *m, const bc_comparison *c);
 int bc_report_compare_json(FILE *f, const bc_model *m, const bc_comparison *c);
+
+/* Text report of `score`: verdict first, then details, the top worst states and the gates. */
+int bc_report_score_text(FILE *f, const bc_model *m, const bc_score *s, const bc_gate *gates,
+                         int n_gates, int32_t top);
+/* JSON report of `score` (schema in docs/json-reports.md). */
+int bc_report_score_json(FILE *f, const bc_model *m, const bc_score *s, const bc_gate *gates,
+                         int n_gates, int32_t top);
 
 /* CSV `state,value` of a solution (values in the model's own sign). */
 int bc_write_values_csv(FILE *f, const bc_model *m, const bc_solution *sol);

@@ -35,6 +35,7 @@ int bc_cli_text_wanted(const bc_cli_common *c);
 /* The commands. */
 int bc_cli_check(int argc, char **argv);
 int bc_cli_solve(int argc, char **argv);
+int bc_cli_score(int argc, char **argv);
 
 /* Common options, for getopt_long tables and --help texts. */
 #define BC_CLI_COMMON_LONGOPTS                                                                     \
