@@ -281,7 +281,8 @@ static int name_line(reader *r, const char *end)
     const char *p = r->tok[0].s + r->tok[0].len;
     while (p < end && (*p == ' ' || *p == '\t'))
         p++;
-    const char *q = end;
+    const char *hash = p < end ? memchr(p, '#', (size_t)(end - p)) : NULL; /* a comment ends the text */
+    const char *q = hash ? hash : end;
     while (q > p && (q[-1] == ' ' || q[-1] == '\t' || q[-1] == '\r'))
         q--;
     if (q == p)
@@ -368,7 +369,8 @@ static int read_line(reader *r, const char *p, const char *end)
      * with a directive keyword (then its messages say what a transition line
      * lacks, rather than calling the state an unknown directive). */
     int is_transition = !is_directive(&r->tok[0]);
-    for (size_t i = 1; i < r->n_tok && !is_transition; i++)
+    /* `name` takes the rest of its line as text, which may hold `->`. */
+    for (size_t i = 1; i < r->n_tok && !is_transition && !token_is(&r->tok[0], "name"); i++)
         is_transition = is_arrow(&r->tok[i]);
     if (is_transition)
         rc = transition_line(r);

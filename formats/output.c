@@ -1,5 +1,6 @@
 /* output.c — output files that appear only when complete: a temporary file renamed into place. */
 /* SPDX-License-Identifier: GPL-3.0-or-later */
+#define _XOPEN_SOURCE 700 /* realpath */
 #include "bellcheck.h"
 
 #include <errno.h>
@@ -15,12 +16,37 @@ int bc_out_open(bc_out *o, const char *path, bc_diag *d)
         o->f = stdout;
         return 0;
     }
+    /* A symbolic link is followed, so that the file it names is replaced and
+     * the link stays; a target that is not a regular file (a pipe, a device)
+     * cannot be replaced atomically and is written directly. */
+    struct stat st;
+    char *resolved = NULL;
+    if (lstat(path, &st) == 0 && S_ISLNK(st.st_mode)) {
+        resolved = realpath(path, NULL);
+        if (!resolved) {
+            bc_diag_add(d, BC_ERROR, path, 0, 0, "cannot follow the symbolic link: %s",
+                        strerror(errno));
+            return -1;
+        }
+        path = resolved;
+    }
+    if (stat(path, &st) == 0 && !S_ISREG(st.st_mode)) {
+        o->f = S_ISDIR(st.st_mode) ? NULL : fopen(path, "w");
+        if (!o->f)
+            bc_diag_add(d, BC_ERROR, path, 0, 0, "cannot write: %s",
+                        S_ISDIR(st.st_mode) ? "is a directory" : strerror(errno));
+        o->direct = o->f != NULL;
+        o->path = o->f ? strdup(path) : NULL;
+        free(resolved);
+        return o->f ? 0 : -1;
+    }
     size_t n = strlen(path) + 16;
     o->path = strdup(path);
     o->tmp_path = malloc(n);
     if (!o->path || !o->tmp_path) {
         bc_diag_add(d, BC_ERROR, path, 0, 0, "out of memory");
         bc_out_abort(o);
+        free(resolved);
         return -1;
     }
     /* Same directory as the target, so that rename() is atomic. */
@@ -31,6 +57,7 @@ int bc_out_open(bc_out *o, const char *path, bc_diag *d)
         free(o->tmp_path);
         o->tmp_path = NULL;
         bc_out_abort(o);
+        free(resolved);
         return -1;
     }
     /* mkstemp makes the file private (0600); give it the mode a plain fopen would. */
@@ -42,8 +69,10 @@ int bc_out_open(bc_out *o, const char *path, bc_diag *d)
         close(fd);
         bc_diag_add(d, BC_ERROR, path, 0, 0, "cannot open: %s", strerror(errno));
         bc_out_abort(o);
+        free(resolved);
         return -1;
     }
+    free(resolved);
     return 0;
 }
 
@@ -63,7 +92,7 @@ int bc_out_commit(bc_out *o, bc_diag *d)
         err = errno;
     }
     o->f = NULL;
-    if (!bad && rename(o->tmp_path, o->path) != 0) {
+    if (!bad && !o->direct && rename(o->tmp_path, o->path) != 0) {
         bad = 1;
         err = errno;
     }

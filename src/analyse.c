@@ -75,13 +75,16 @@ static int reverse_edges(const bc_model *m, int64_t **rev_start, int32_t **rev_p
     *rev_pair = malloc((size_t)(m->n_trans ? m->n_trans : 1) * sizeof **rev_pair);
     if (!*rev_start || !*rev_pair)
         return -1;
+    /* Only positive-probability transitions are edges: a written 0 leads nowhere. */
     for (int64_t t = 0; t < m->n_trans; t++)
-        (*rev_start)[m->succ_state[t] + 2]++;
+        if (positive(m, t))
+            (*rev_start)[m->succ_state[t] + 2]++;
     for (int32_t s = 0; s < n; s++)
         (*rev_start)[s + 2] += (*rev_start)[s + 1];
     for (int64_t p = 0; p < m->n_pairs; p++)
         for (int64_t t = m->pair_trans_start[p]; t < m->pair_trans_start[p + 1]; t++)
-            (*rev_pair)[(*rev_start)[m->succ_state[t] + 1]++] = (int32_t)p;
+            if (positive(m, t))
+                (*rev_pair)[(*rev_start)[m->succ_state[t] + 1]++] = (int32_t)p;
     return 0; /* now rev_start[s]..rev_start[s+1] are the pairs entering s */
 }
 
@@ -148,8 +151,8 @@ static int zero_reward(const bc_model *m, int64_t p)
 {
     if (!m->outcome_exact)
         return bc_num_sign(m->reward_exact[p], m->big) == 0;
-    if (m->reward[p] > 1e-6 || m->reward[p] < -1e-6)
-        return 0; /* the double is within 1e-15 relative of the exact sum: clearly non-zero */
+    if (m->reward[p] != 0)
+        return 0; /* reward[p] is the exact sum rounded once: non-zero means non-zero */
     mpq_t r;
     mpq_init(r);
     bc_model_reward_mpq(m, p, r);

@@ -50,7 +50,8 @@ size_t bc_bigtab_count(const bc_bigtab *big);             /* number of big value
  * Returns 0 and sets *out, or -1 and sets *why to a static explanation. */
 int bc_num_parse(const char *s, size_t len, bc_num *out, bc_bigtab *big, const char **why);
 bc_num bc_num_int(int64_t v);                             /* the integer v */
-double bc_num_to_double(bc_num x, const bc_bigtab *big);  /* nearest double (big: GMP's truncation) */
+double bc_num_to_double(bc_num x, const bc_bigtab *big);  /* the nearest double (ties to even) */
+double bc_mpq_to_double(const mpq_t x);                   /* the nearest double (ties to even) */
 void bc_num_to_mpq(mpq_t out, bc_num x, const bc_bigtab *big); /* exact copy into an initialised mpq_t */
 int bc_num_from_mpq(bc_num *out, const mpq_t x, bc_bigtab *big); /* canonical bc_num of x; -1 on out of memory */
 int bc_num_cmp(bc_num a, bc_num b, const bc_bigtab *big); /* <0, 0, >0 as a <, ==, > b */
@@ -64,6 +65,8 @@ int bc_num_div(bc_num a, bc_num b, bc_num *out, bc_bigtab *big); /* out = a / b 
 int bc_num_write(FILE *f, bc_num x, const bc_bigtab *big);
 /* The same text into buf (NUL-terminated, truncated to cap); returns the full length. */
 size_t bc_num_format(char *buf, size_t cap, bc_num x, const bc_bigtab *big);
+/* The bc_num_format text of x, whole, in a malloc'ed string; NULL if out of memory. */
+char *bc_num_text(bc_num x, const bc_bigtab *big);
 /* Lowest-terms "p/q" (or "p" for integers) into buf; returns the full length. */
 size_t bc_num_format_fraction(char *buf, size_t cap, bc_num x, const bc_bigtab *big);
 
@@ -261,7 +264,8 @@ int bc_write_bell_json(const bc_model *m, FILE *f);
 typedef struct {
     FILE *f;
     char *path;     /* target path; NULL for standard output */
-    char *tmp_path; /* temporary path; NULL for standard output */
+    char *tmp_path; /* temporary path; NULL for standard output and direct writes */
+    int direct;     /* 1: the target is not a regular file (a pipe, a device) and is written in place */
 } bc_out;
 
 int bc_out_open(bc_out *o, const char *path, bc_diag *d); /* "-" = standard output; 0 or -1 */

@@ -61,6 +61,16 @@ int bc__grow(void **arr, int64_t *cap, int64_t need, size_t sz)
     return 0;
 }
 
+const char *bc__abbrev(char *text)
+{
+    if (!text)
+        return "(a number; out of memory to show it)";
+    size_t n = strlen(text);
+    if (n > 200) /* keep the head and the tail, and say that the middle is left out */
+        memmove(text + 90, "...", 4), memmove(text + 93, text + n - 90, 91);
+    return text;
+}
+
 int bc__resize(void **arr, int64_t old_cap, int64_t new_cap, size_t sz)
 {
     if (new_cap < 0 || (uint64_t)new_cap > SIZE_MAX / sz)
@@ -226,10 +236,11 @@ int bc_builder_discount(bc_builder *b, bc_num g, bc_pos at)
     if (bc__directive_once(b, BC_DIR_DISCOUNT, "discount", at) < 0)
         return -1;
     if (bc_num_sign(g, b->big) <= 0 || bc_num_cmp(g, bc_num_int(1), b->big) > 0) {
-        char buf[64];
-        bc_num_format(buf, sizeof buf, g, b->big);
-        return bc__builder_report(b, BC_ERROR, at,
-                                  "the discount must satisfy 0 < discount <= 1; found %s", buf);
+        char *text = bc_num_text(g, b->big);
+        bc__builder_report(b, BC_ERROR, at, "the discount must satisfy 0 < discount <= 1; found %s",
+                           bc__abbrev(text));
+        free(text);
+        return -1;
     }
     b->discount = g;
     return 0;
@@ -248,12 +259,12 @@ int bc_builder_horizon(bc_builder *b, bc_num h, bc_pos at)
     if (bc__directive_once(b, BC_DIR_HORIZON, "horizon", at) < 0)
         return -1;
     if (h.den != 1 || h.num < 1 || h.num > 1000000) {
-        char buf[64];
-        bc_num_format(buf, sizeof buf, h, b->big);
-        return bc__builder_report(b, BC_ERROR, at,
-                                  "the horizon must be a positive integer of at most 1000000; "
-                                  "found %s",
-                                  buf);
+        char *text = bc_num_text(h, b->big);
+        bc__builder_report(b, BC_ERROR, at,
+                           "the horizon must be a positive integer of at most 1000000; found %s",
+                           bc__abbrev(text));
+        free(text);
+        return -1;
     }
     b->horizon = (int32_t)h.num;
     return 0;

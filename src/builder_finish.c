@@ -263,14 +263,23 @@ static void fill_pairs(bc_builder *b, bc_model *m, const int64_t *order, const i
     }
     for (int32_t s = 0; s < m->n_states; s++)
         m->state_pair_start[s + 1] += m->state_pair_start[s];
+    /* The expected reward is summed exactly and rounded once: summing doubles
+     * can cancel catastrophically (1e20 - 1e20 must give 0, not 16384). */
+    mpq_t r;
+    mpq_init(r);
     for (int64_t k = 0; k < m->n_pairs; k++) {
-        double r = bc_num_to_double(m->reward_exact[k], m->big);
+        int has_outcome = 0;
         if (m->outcome_exact)
-            for (int64_t t = m->pair_trans_start[k]; t < m->pair_trans_start[k + 1]; t++)
-                if (bc_num_sign(m->outcome_exact[t], m->big) != 0)
-                    r += m->prob[t] * bc_num_to_double(m->outcome_exact[t], m->big);
-        m->reward[k] = r;
+            for (int64_t t = m->pair_trans_start[k]; t < m->pair_trans_start[k + 1] && !has_outcome; t++)
+                has_outcome = bc_num_sign(m->outcome_exact[t], m->big) != 0;
+        if (!has_outcome) {
+            m->reward[k] = bc_num_to_double(m->reward_exact[k], m->big);
+            continue;
+        }
+        bc_model_reward_mpq(m, k, r);
+        m->reward[k] = bc_mpq_to_double(r);
     }
+    mpq_clear(r);
 }
 
 /* "dir/dock-shuttle.bell" -> "dock-shuttle" (malloc'ed). */
@@ -363,6 +372,10 @@ bc_model *bc_builder_finish(bc_builder *b, const char *default_name)
         goto done;
     }
     duplicate_pairs(b, order);
+    if (b->n_pairs == 0 && ns > 0)
+        bc__builder_report(b, BC_ERROR, nowhere,
+                           "the model has no transition lines: every state is terminal, so "
+                           "there is nothing to decide");
     if (b->n_errors)
         goto done;
     m = assemble(b, term, order, perm_s, inv_s, sid, perm_a, inv_a, aid, default_name);

@@ -88,6 +88,8 @@ int bc__builder_report(bc_builder *b, bc_severity sev, bc_pos at, const char *fm
     __attribute__((format(printf, 4, 5)));
 /* Records that a directive appears; a second appearance is reported. 0 or -1. */
 int bc__directive_once(bc_builder *b, bc_directive which, const char *word, bc_pos at);
+/* Shortens a malloc'ed number text in place to at most 183 bytes, marking the cut with "...". */
+const char *bc__abbrev(char *text);
 /* Grows *arr (element size sz, capacity *cap) to hold need elements; 0 or -1. */
 int bc__grow(void **arr, int64_t *cap, int64_t need, size_t sz);
 /* Reallocates *arr from old_cap to new_cap elements of size sz, zeroing the new part; 0 or -1. */

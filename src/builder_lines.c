@@ -263,16 +263,21 @@ int bc__check_distribution(bc_builder *b, bc_num *probs, int64_t n, bc_pos at, c
         return 0;
     /* |sum - 1| <= 1e-9, compared exactly. */
     bc_num lo = {999999999, 1000000000}, hi = {1000000001, 1000000000};
-    char text[64];
-    bc_num_format(text, sizeof text, sum, b->big);
-    if (bc_num_cmp(sum, lo, b->big) < 0 || bc_num_cmp(sum, hi, b->big) > 0)
-        return bc__builder_report(b, BC_ERROR, at, "%s sum to %s; expected exactly 1", what,
-                                  text);
+    char *text = bc_num_text(sum, b->big);
+    int off = bc_num_cmp(sum, lo, b->big) < 0 || bc_num_cmp(sum, hi, b->big) > 0;
+    if (off)
+        bc__builder_report(b, BC_ERROR, at, "%s sum to %s; expected exactly 1", what,
+                           bc__abbrev(text));
+    else
+        bc__builder_report(b, BC_WARNING, at,
+                           "%s sum to %s, within 1e-9 of 1; renormalised exactly", what,
+                           bc__abbrev(text));
+    free(text);
+    if (off)
+        return -1;
     for (int64_t k = 0; k < n; k++)
         if (bc_num_div(probs[k], sum, &probs[k], b->big) < 0)
             return bc__builder_report(b, BC_ERROR, at, "out of memory");
-    bc__builder_report(b, BC_WARNING, at, "%s sum to %s, within 1e-9 of 1; renormalised exactly",
-                       what, text);
     *renormalised = 1;
     return 0;
 }

@@ -141,8 +141,16 @@ int main(int argc, char **argv)
         return BC_EXIT_OK;
     }
     for (size_t i = 0; i < sizeof commands / sizeof commands[0]; i++)
-        if (!strcmp(cmd, commands[i].name))
-            return commands[i].run(argc - 1, argv + 1);
+        if (!strcmp(cmd, commands[i].name)) {
+            int rc = commands[i].run(argc - 1, argv + 1);
+            /* A report that did not reach standard output is a failed run. */
+            if (fflush(stdout) != 0 || ferror(stdout)) {
+                fprintf(stderr, "bellcheck %s: cannot write to standard output: %s\n", cmd,
+                        strerror(errno));
+                return BC_EXIT_SOLVER;
+            }
+            return rc;
+        }
     fprintf(stderr, "bellcheck: unknown command '%s'\n\n", cmd);
     usage(stderr);
     return BC_EXIT_USAGE;

@@ -93,6 +93,10 @@ static int parse_args(int argc, char **argv, solve_args *a)
         return bc_cli_usage_error("solve", "expected one MODEL argument (see --help)");
     if (a->compare && a->method != BC_METHOD_AUTO)
         return bc_cli_usage_error("solve", "--compare runs every method; do not combine it with --method");
+    int json_stdout = a->c.json_path && !strcmp(a->c.json_path, "-");
+    if ((a->values_out && !strcmp(a->values_out, "-") && (json_stdout || (a->policy_out && !strcmp(a->policy_out, "-")))) ||
+        (a->policy_out && !strcmp(a->policy_out, "-") && json_stdout))
+        return bc_cli_usage_error("solve", "only one output may go to standard output (-)");
     a->path = argv[optind];
     return 0;
 }
@@ -178,7 +182,7 @@ static int run_compare(const solve_args *a, const bc_model *m)
     for (int i = 0; i < cmp.n && !best; i++)
         if (cmp.sol[i].status == BC_SOLVE_OK)
             best = &cmp.sol[i];
-    if (write_outputs(a, m, best, &cmp) < 0)
+    if (rc == BC_EXIT_OK && write_outputs(a, m, best, &cmp) < 0)
         rc = BC_EXIT_SOLVER;
     bc_comparison_free(&cmp);
     return rc;
@@ -194,7 +198,8 @@ static int run_one(const solve_args *a, const bc_model *m)
     int rc = st == BC_SOLVE_OK ? BC_EXIT_OK : BC_EXIT_SOLVER;
     if (st != BC_SOLVE_OK)
         fprintf(stderr, "bellcheck solve: %s: %s\n", bc_method_name(sol.method), sol.message);
-    if (sol.values && write_outputs(a, m, &sol, NULL) < 0)
+    /* A failed solve writes nothing: its numbers are not an answer. */
+    if (st == BC_SOLVE_OK && write_outputs(a, m, &sol, NULL) < 0)
         rc = BC_EXIT_SOLVER;
     bc_solution_free(&sol);
     return rc;

@@ -14,10 +14,35 @@ void bc_jw_init(bc_jw *w, FILE *f)
     w->empty[0] = 1;
 }
 
+/* Length of the valid UTF-8 sequence at p (1..4), or 0 if it is not one. */
+static int utf8_len(const unsigned char *p)
+{
+    int n = p[0] < 0x80 ? 1 : (p[0] & 0xE0) == 0xC0 ? 2 : (p[0] & 0xF0) == 0xE0 ? 3
+          : (p[0] & 0xF8) == 0xF0 ? 4 : 0;
+    if (n == 2 && p[0] < 0xC2)
+        return 0; /* overlong */
+    for (int i = 1; i < n; i++)
+        if ((p[i] & 0xC0) != 0x80)
+            return 0;
+    return n;
+}
+
+/* Writes s as a JSON string; bytes that are not UTF-8 become U+FFFD, so the
+ * document stays valid whatever a model's label or a file name holds. */
 static void write_escaped(FILE *f, const char *s)
 {
     fputc('"', f);
     for (const unsigned char *p = (const unsigned char *)s; *p; p++) {
+        int n = utf8_len(p);
+        if (n == 0) {
+            fputs("\ufffd", f);
+            continue;
+        }
+        if (n > 1) {
+            fwrite(p, 1, (size_t)n, f);
+            p += n - 1;
+            continue;
+        }
         if (*p == '"' || *p == '\\')
             fprintf(f, "\\%c", *p);
         else if (*p == '\n')

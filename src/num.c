@@ -13,6 +13,7 @@
 
 #include <assert.h>
 #include <errno.h>
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -189,8 +190,38 @@ double bc_num_to_double(bc_num x, const bc_bigtab *big)
     mpq_t q;
     mpq_init(q);
     bc_num_to_mpq(q, x, big);
-    double r = mpq_get_d(q);
+    double r = bc_mpq_to_double(q);
     mpq_clear(q);
+    return r;
+}
+
+/* mpq_get_d truncates toward zero; the nearest double is that value or the
+ * next one away from zero, decided exactly against their midpoint. */
+double bc_mpq_to_double(const mpq_t x)
+{
+    double lo = mpq_get_d(x);
+    if (mpq_sgn(x) == 0 || !isfinite(lo))
+        return lo;
+    double hi = nextafter(lo, mpq_sgn(x) > 0 ? INFINITY : -INFINITY);
+    if (!isfinite(hi))
+        return lo;
+    mpq_t a, b;
+    mpq_init(a);
+    mpq_init(b);
+    mpq_set_d(a, lo);
+    mpq_set_d(b, hi);
+    mpq_add(a, a, b);
+    mpq_div_2exp(a, a, 1); /* the midpoint, exactly */
+    int c = mpq_cmp(x, a) * mpq_sgn(x); /* > 0: x is beyond the midpoint, away from zero */
+    double r = lo;
+    if (c > 0)
+        r = hi;
+    else if (c == 0) { /* a tie: keep the one whose 53-bit mantissa is even */
+        int e;
+        r = ((int64_t)ldexp(fabs(frexp(lo, &e)), 53) & 1) ? hi : lo;
+    }
+    mpq_clear(a);
+    mpq_clear(b);
     return r;
 }
 
@@ -646,6 +677,15 @@ static size_t num_format_any(char *buf, size_t cap, bc_num x, const bc_bigtab *b
 size_t bc_num_format(char *buf, size_t cap, bc_num x, const bc_bigtab *big)
 {
     return num_format_any(buf, cap, x, big, 0);
+}
+
+char *bc_num_text(bc_num x, const bc_bigtab *big)
+{
+    size_t n = bc_num_format(NULL, 0, x, big);
+    char *s = malloc(n + 1);
+    if (s)
+        bc_num_format(s, n + 1, x, big);
+    return s;
 }
 
 size_t bc_num_format_fraction(char *buf, size_t cap, bc_num x, const bc_bigtab *big)

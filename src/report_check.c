@@ -2,6 +2,8 @@
 /* SPDX-License-Identifier: GPL-3.0-or-later */
 #include "report_internal.h"
 
+#include <stdlib.h>
+
 #define LIST_MAX 12 /* states named in a text line before "and N more" */
 
 int bc_findings_fatal(const bc_model *m, const bc_findings *fd)
@@ -21,14 +23,14 @@ static void name_list(FILE *f, const bc_model *m, const int32_t *states, int32_t
 
 static void summary_text(FILE *f, const bc_model *m, const bc_findings *fd, const char *source)
 {
-    char g[64];
-    bc_num_format(g, sizeof g, m->discount_exact, m->big);
+    char *g = bc_num_text(m->discount_exact, m->big);
     fprintf(f, "model %s (%s)\n", m->name, source);
     fprintf(f, "  %d state%s (%d terminal), %d action%s, %lld state-action pair%s, %lld transition%s\n",
             (int)m->n_states, m->n_states == 1 ? "" : "s", (int)fd->n_terminal, (int)m->n_actions,
             m->n_actions == 1 ? "" : "s", (long long)m->n_pairs, m->n_pairs == 1 ? "" : "s",
             (long long)m->n_trans, m->n_trans == 1 ? "" : "s");
-    fprintf(f, "  discount %s, objective %s, ", g, m->objective == BC_MAX ? "max (rewards)" : "min (costs)");
+    fprintf(f, "  discount %s, objective %s, ", g ? g : "?", m->objective == BC_MAX ? "max (rewards)" : "min (costs)");
+    free(g);
     if (m->horizon > 0)
         fprintf(f, "finite horizon of %d decisions\n", (int)m->horizon);
     else
@@ -98,8 +100,7 @@ int bc_report_check_text(FILE *f, const bc_model *m, const bc_findings *fd, cons
 
 void bc__json_model(bc_jw *w, const bc_model *m)
 {
-    char g[64];
-    bc_num_format(g, sizeof g, m->discount_exact, m->big);
+    char *g = bc_num_text(m->discount_exact, m->big);
     bc_jw_object(w, "model");
     bc_jw_string(w, "name", m->name);
     bc_jw_int(w, "states", m->n_states);
@@ -112,6 +113,7 @@ void bc__json_model(bc_jw *w, const bc_model *m)
     bc_jw_int(w, "terminal_states", term);
     bc_jw_number(w, "discount", m->discount);
     bc_jw_string(w, "discount_exact", g);
+    free(g);
     bc_jw_string(w, "objective", m->objective == BC_MAX ? "max" : "min");
     if (m->horizon > 0)
         bc_jw_int(w, "horizon", m->horizon);

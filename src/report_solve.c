@@ -3,6 +3,7 @@
 #include "report_internal.h"
 
 #include <math.h>
+#include <stdlib.h>
 
 static const char *method_long(bc_method m)
 {
@@ -36,15 +37,17 @@ static void bound_text(FILE *f, double bound)
 
 int bc_report_solve_text(FILE *f, const bc_model *m, const bc_solution *sol, int32_t show)
 {
-    fprintf(f, "model %s: %d states, %d actions, discount %g, objective %s\n", m->name,
-            (int)m->n_states, (int)m->n_actions, m->discount, m->objective == BC_MAX ? "max" : "min");
+    char *g = bc_num_text(m->discount_exact, m->big);
+    fprintf(f, "model %s: %d states, %d actions, discount %s, objective %s\n", m->name,
+            (int)m->n_states, (int)m->n_actions, g ? g : "?", m->objective == BC_MAX ? "max" : "min");
+    free(g);
     fprintf(f, "method %s (%s): %s, %lld %s, %.3f s\n", bc_method_name(sol->method),
             method_long(sol->method), status_word(sol->status), (long long)sol->iterations,
             sol->method == BC_METHOD_PI ? "improvement steps" :
             sol->method == BC_METHOD_BACKWARD ? "stages" : "iterations", sol->seconds);
     if (sol->message[0])
         fprintf(f, "  %s\n", sol->message);
-    if (!sol->values)
+    if (!sol->values || sol->status != BC_SOLVE_OK) /* no answer to show */
         return ferror(f) ? -1 : 0;
     fprintf(f, "optimal value at the initial distribution: %.10g ", sol->value_initial);
     bound_text(f, sol->bound);
@@ -57,7 +60,8 @@ int bc_report_solve_text(FILE *f, const bc_model *m, const bc_solution *sol, int
     for (int32_t s = 0; s < n; s++) {
         int64_t p = sol->policy ? sol->policy[s] : -1;
         fprintf(f, "%-24s %-20s %.10g\n", bc_names_get(m->state_names, s),
-                p >= 0 ? bc_names_get(m->action_names, m->pair_action[p]) : "(terminal)",
+                p >= 0 ? bc_names_get(m->action_names, m->pair_action[p])
+                       : m->terminal[s] ? "(terminal)" : "(none)",
                 sol->values[s]);
     }
     if (n < m->n_states)
