@@ -107,6 +107,7 @@ static void nameset_free(bc_nameset *ns)
     bc_names_free(ns->names);
     free(ns->first);
     free(ns->declared);
+    free(ns->listed);
     free(ns->order);
 }
 
@@ -178,7 +179,8 @@ static int32_t nameset_intern(bc_builder *b, bc_nameset *ns, const char *name, s
         if (i >= ns->cap) {
             int64_t cap = ns->cap ? 2 * ns->cap : 256;
             if (bc__resize((void **)&ns->first, ns->cap, cap, sizeof *ns->first) < 0 ||
-                bc__resize((void **)&ns->declared, ns->cap, cap, sizeof *ns->declared) < 0) {
+                bc__resize((void **)&ns->declared, ns->cap, cap, sizeof *ns->declared) < 0 ||
+                bc__resize((void **)&ns->listed, ns->cap, cap, sizeof *ns->listed) < 0) {
                 bc__builder_report(b, BC_ERROR, at, "out of memory while storing names");
                 return -1;
             }
@@ -187,6 +189,7 @@ static int32_t nameset_intern(bc_builder *b, bc_nameset *ns, const char *name, s
         ns->first[i].line = at.line;
         ns->first[i].col = at.col;
         ns->declared[i] = 0;
+        ns->listed[i] = 0;
     }
     return i;
 }

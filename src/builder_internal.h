@@ -29,10 +29,13 @@ typedef struct {
     bc_names *names;
     bc_linecol *first; /* [count] */
     int32_t *declared; /* [count] 0 = not in the declaration line, else 1 + position */
-    int64_t cap;       /* of first and declared */
+    uint8_t *listed;   /* [count] BC_LISTED_* bits: already in `terminal` / `initial` */
+    int64_t cap;       /* of first, declared and listed */
     int32_t *order;    /* declaration order: order[k] = name index */
     int64_t n_order, cap_order;
 } bc_nameset;
+
+enum { BC_LISTED_TERMINAL = 1, BC_LISTED_INITIAL = 2 };
 
 typedef struct {
     int32_t state;

@@ -54,10 +54,10 @@ int bc_builder_list_add(bc_builder *b, const char *name, size_t len, bc_pos at)
         int32_t s = bc_builder_state(b, name, len, at);
         if (s < 0)
             return -1;
-        for (int64_t k = 0; k < b->n_terminal; k++)
-            if (b->terminal_at[k].state == s)
-                return bc__builder_report(b, BC_ERROR, at, "terminal state `%.*s` is listed twice",
-                                          (int)len, name);
+        if (b->states.listed[s] & BC_LISTED_TERMINAL)
+            return bc__builder_report(b, BC_ERROR, at, "terminal state `%.*s` is listed twice",
+                                      (int)len, name);
+        b->states.listed[s] |= BC_LISTED_TERMINAL;
         if (bc__grow((void **)&b->terminal_at, &b->cap_terminal, b->n_terminal + 1,
                      sizeof *b->terminal_at) < 0)
             return bc__builder_report(b, BC_ERROR, at, "out of memory");
@@ -92,10 +92,10 @@ int bc_builder_initial_add(bc_builder *b, const char *name, size_t len, const bc
     int32_t s = bc_builder_state(b, name, len, at);
     if (s < 0)
         return -1;
-    for (int64_t k = 0; k < b->n_init; k++)
-        if (b->init_state[k] == s)
-            return bc__builder_report(b, BC_ERROR, at,
-                                      "state `%.*s` appears twice in `initial`", (int)len, name);
+    if (b->states.listed[s] & BC_LISTED_INITIAL)
+        return bc__builder_report(b, BC_ERROR, at, "state `%.*s` appears twice in `initial`",
+                                  (int)len, name);
+    b->states.listed[s] |= BC_LISTED_INITIAL;
     if (b->n_init == b->cap_init) {
         int64_t cap = b->cap_init ? 2 * b->cap_init : 16;
         if (bc__resize((void **)&b->init_state, b->cap_init, cap, sizeof *b->init_state) < 0 ||
