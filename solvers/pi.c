@@ -11,6 +11,8 @@
  * current pair — that is what keeps the method out of zero-reward loops at
  * discount 1, where it must start from, and keep to, policies that
  * terminate with probability 1 (Howard 1960; Puterman 1994, ch. 6 and 7).
+ * The same evaluation, for stochastic policies over any set of states,
+ * serves scoring through bc_sv_eval_* (solver_internal.h).
  *
  * Bounds.  Let res be the evaluation residual and gain the largest
  * improvement any pair still offers at the end (computed at v).
@@ -34,13 +36,15 @@
 #include "bellcheck.h"
 #include "solver_internal.h"
 
-/* Workspace of one run; the linear system lives over the n non-terminal
- * states, numbered in state order. */
-typedef struct {
+/* Workspace of one run; the linear system lives over the n states of the
+ * system (policy iteration: the non-terminal states), numbered in state
+ * order.  Scoring uses the same workspace through bc_sv_eval_*. */
+typedef struct bc_sv_eval {
     int32_t n;
-    int32_t *col_of;   /* [n_states] index among non-terminal states, -1 if terminal */
+    int32_t *col_of;   /* [n_states] index among the system's states, -1 outside */
     int32_t *state_of; /* [n] */
-    int64_t nnz_max;   /* 1 + largest successor count, summed over states */
+    int64_t nnz_max;   /* per system state 1 + its largest successor count (all
+                        * its successor counts when stochastic), summed */
     int64_t *row_start;            /* [n+1] rows of A = I - g P_pi, duplicates merged */
     int32_t *row_col;              /* [nnz_max] */
     double *row_val;               /* [nnz_max] */
@@ -63,22 +67,26 @@ static void pi_work_free(pi_work *w)
     memset(w, 0, sizeof *w);
 }
 
-static int pi_work_alloc(const bc_model *m, pi_work *w)
+/* in_system NULL: the non-terminal states.  stochastic: room for rows that
+ * mix every pair of their state. */
+static int pi_work_alloc(const bc_model *m, const uint8_t *in_system, int stochastic, pi_work *w)
 {
     memset(w, 0, sizeof *w);
     w->col_of = malloc((size_t)(m->n_states ? m->n_states : 1) * sizeof *w->col_of);
     if (!w->col_of)
         return -1;
     for (int32_t s = 0; s < m->n_states; s++) {
-        w->col_of[s] = m->terminal[s] ? -1 : w->n++;
-        if (m->terminal[s])
+        int in = in_system ? in_system[s] : !m->terminal[s];
+        w->col_of[s] = in ? w->n++ : -1;
+        if (!in)
             continue;
-        int64_t widest = 0;
+        int64_t widest = 0, all = 0;
         for (int64_t p = m->state_pair_start[s]; p < m->state_pair_start[s + 1]; p++) {
             int64_t k = m->pair_trans_start[p + 1] - m->pair_trans_start[p];
             widest = k > widest ? k : widest;
+            all += k;
         }
-        w->nnz_max += 1 + widest;
+        w->nnz_max += 1 + (stochastic ? all : widest);
     }
     size_t n = (size_t)(w->n ? w->n : 1), z = (size_t)(w->nnz_max ? w->nnz_max : 1);
     w->state_of = malloc(n * sizeof *w->state_of);
@@ -105,38 +113,44 @@ static int pi_work_alloc(const bc_model *m, pi_work *w)
     return 0;
 }
 
-/* Fills A = I - g P_pi by rows (repeated successors and the diagonal merged:
- * pos[j] >= row_start[i] means column j already has a slot in row i), then
- * transposes it into the columns UMFPACK wants; a counting-sort transpose
- * leaves the row indices of each column sorted, as UMFPACK requires.  b
- * gets r_pi in the maximising convention. */
-static void build_system(const bc_model *m, pi_work *w, double sgn, const int64_t *policy)
+/* Adds -g * weight * P(.|p) to row i (which is open at the end of the row
+ * arrays): repeated successors and the diagonal are merged, pos[j] >=
+ * row_start[i] meaning column j already has a slot in row i; successors
+ * outside the system are dropped.  Returns the new number of entries. */
+static int64_t add_pair_to_row(const bc_model *m, pi_work *w, int32_t i, int64_t p, double weight,
+                               int64_t nz)
 {
     const double g = m->discount;
-    int64_t nz = 0;
-    for (int32_t j = 0; j < w->n; j++)
-        w->pos[j] = -1;
-    for (int32_t i = 0; i < w->n; i++) {
-        int64_t p = policy[w->state_of[i]];
-        assert(p >= 0 && m->pair_state[p] == w->state_of[i]);
-        w->row_start[i] = nz;
-        w->pos[i] = nz;
-        w->row_col[nz] = i;
-        w->row_val[nz++] = 1.0;
-        for (int64_t k = m->pair_trans_start[p]; k < m->pair_trans_start[p + 1]; k++) {
-            int32_t j = w->col_of[m->succ_state[k]];
-            if (j < 0)
-                continue;
-            if (w->pos[j] >= w->row_start[i]) {
-                w->row_val[w->pos[j]] -= g * m->prob[k];
-            } else {
-                w->pos[j] = nz;
-                w->row_col[nz] = j;
-                w->row_val[nz++] = -g * m->prob[k];
-            }
+    for (int64_t k = m->pair_trans_start[p]; k < m->pair_trans_start[p + 1]; k++) {
+        int32_t j = w->col_of[m->succ_state[k]];
+        if (j < 0)
+            continue;
+        if (w->pos[j] >= w->row_start[i]) {
+            w->row_val[w->pos[j]] -= g * weight * m->prob[k];
+        } else {
+            w->pos[j] = nz;
+            w->row_col[nz] = j;
+            w->row_val[nz++] = -g * weight * m->prob[k];
         }
-        w->b[i] = bc_sv_reward(m, sgn, p);
     }
+    return nz;
+}
+
+/* Opens row i of A with its diagonal 1; returns the new number of entries. */
+static int64_t open_row(pi_work *w, int32_t i, int64_t nz)
+{
+    w->row_start[i] = nz;
+    w->pos[i] = nz;
+    w->row_col[nz] = i;
+    w->row_val[nz++] = 1.0;
+    return nz;
+}
+
+/* Transposes the nz entries of A's rows into the columns UMFPACK wants; a
+ * counting-sort transpose leaves the row indices of each column sorted, as
+ * UMFPACK requires. */
+static void rows_to_columns(pi_work *w, int64_t nz)
+{
     w->row_start[w->n] = nz;
     assert(nz <= w->nnz_max);
     memset(w->Ap, 0, ((size_t)w->n + 1) * sizeof *w->Ap);
@@ -154,6 +168,40 @@ static void build_system(const bc_model *m, pi_work *w, double sgn, const int64_
     for (int32_t j = w->n; j > 0; j--)
         w->Ap[j] = w->Ap[j - 1];
     w->Ap[0] = 0;
+}
+
+/* Fills A = I - g P_pi for the deterministic policy; b gets r_pi in the
+ * maximising convention. */
+static void build_system(const bc_model *m, pi_work *w, double sgn, const int64_t *policy)
+{
+    int64_t nz = 0;
+    for (int32_t j = 0; j < w->n; j++)
+        w->pos[j] = -1;
+    for (int32_t i = 0; i < w->n; i++) {
+        int64_t p = policy[w->state_of[i]];
+        assert(p >= 0 && m->pair_state[p] == w->state_of[i]);
+        nz = open_row(w, i, nz);
+        nz = add_pair_to_row(m, w, i, p, 1.0, nz);
+        w->b[i] = bc_sv_reward(m, sgn, p);
+    }
+    rows_to_columns(w, nz);
+}
+
+/* Fills A = I - g P_pi for the stochastic policy prob (per pair); b is left
+ * to the caller. */
+static void build_system_mixed(const bc_model *m, pi_work *w, const double *prob)
+{
+    int64_t nz = 0;
+    for (int32_t j = 0; j < w->n; j++)
+        w->pos[j] = -1;
+    for (int32_t i = 0; i < w->n; i++) {
+        int32_t s = w->state_of[i];
+        nz = open_row(w, i, nz);
+        for (int64_t p = m->state_pair_start[s]; p < m->state_pair_start[s + 1]; p++)
+            if (prob[p] > 0.0)
+                nz = add_pair_to_row(m, w, i, p, prob[p], nz);
+    }
+    rows_to_columns(w, nz);
 }
 
 /* Factorises A (replacing the previous factors).  Returns BC_SOLVE_OK, or
@@ -186,11 +234,12 @@ static bc_solve_status factorise(pi_work *w, char *why, size_t cap)
     return st == UMFPACK_ERROR_out_of_memory ? BC_SOLVE_NOMEM : BC_SOLVE_FAILED;
 }
 
-/* Solves A x = b with the current factors (iterative refinement included)
- * and scatters x into v by state (terminal states 0).  0 or -1. */
-static int solve_into(const bc_model *m, pi_work *w, double *v)
+/* Solves A x = b (sys UMFPACK_A) or A^T x = b (UMFPACK_At) with the current
+ * factors (iterative refinement included) and scatters x into v by state
+ * (0 outside the system).  0 or -1. */
+static int solve_into(const bc_model *m, pi_work *w, int sys, double *v)
 {
-    SuiteSparse_long st = umfpack_dl_solve(UMFPACK_A, w->Ap, w->Ai, w->Ax, w->x, w->b, w->numeric,
+    SuiteSparse_long st = umfpack_dl_solve(sys, w->Ap, w->Ai, w->Ax, w->x, w->b, w->numeric,
                                            w->control, w->info);
     if (st != UMFPACK_OK)
         return -1;
@@ -249,7 +298,7 @@ static double max_steps_bound(const bc_model *m, pi_work *w, const bc_sv_scales 
 {
     for (int32_t i = 0; i < w->n; i++)
         w->b[i] = 1.0;
-    if (solve_into(m, w, steps) < 0)
+    if (solve_into(m, w, UMFPACK_A, steps) < 0)
         return -1;
     double nmax = 0.0, rn = 0.0;
     for (int32_t s = 0; s < m->n_states; s++) {
@@ -319,7 +368,7 @@ static bc_solve_status evaluate(const bc_model *m, pi_work *w, double sgn, const
         snprintf(msg, cap, "policy iteration: step %lld: %s", (long long)step, why);
         return st;
     }
-    if (solve_into(m, w, v) < 0) {
+    if (solve_into(m, w, UMFPACK_A, v) < 0) {
         snprintf(msg, cap, "policy iteration: step %lld: the sparse solve failed or overflowed",
                  (long long)step);
         return BC_SOLVE_FAILED;
@@ -353,7 +402,7 @@ double bc_sv_pi_lu_flops(const bc_model *m)
     double flops = -1;
     if (m->horizon > 0 || bc_sv_begin(m, BC_METHOD_PI, &start) != BC_SOLVE_OK)
         return -1;
-    if (pi_work_alloc(m, &w) == 0) {
+    if (pi_work_alloc(m, NULL, 0, &w) == 0) {
         if (w.n == 0) {
             flops = 0;
         } else if (start_policy(m, bc_sv_sign(m), &start) == BC_SOLVE_OK) {
@@ -381,7 +430,7 @@ bc_solve_status bc_solve_pi(const bc_model *m, const bc_solve_opts *o, bc_soluti
     pi_work w;
     int64_t *next = malloc((size_t)(m->n_states ? m->n_states : 1) * sizeof *next);
     double *scratch = malloc((size_t)(m->n_states ? m->n_states : 1) * sizeof *scratch);
-    if (!next || !scratch || pi_work_alloc(m, &w) < 0) {
+    if (!next || !scratch || pi_work_alloc(m, NULL, 0, &w) < 0) {
         free(next), free(scratch);
         snprintf(sol->message, sizeof sol->message, "policy iteration: out of memory");
         return bc_sv_finish(m, sol, BC_SOLVE_NOMEM, t0);
@@ -424,4 +473,65 @@ bc_solve_status bc_solve_pi(const bc_model *m, const bc_solve_opts *o, bc_soluti
     pi_work_free(&w);
     free(next), free(scratch);
     return bc_sv_finish(m, sol, st, t0);
+}
+
+/* ------------------------------------------------------------------------ */
+/* The same evaluation for other callers (scoring)                          */
+/* ------------------------------------------------------------------------ */
+
+bc_sv_eval *bc_sv_eval_new(const bc_model *m, const uint8_t *in_system, int stochastic)
+{
+    pi_work *w = malloc(sizeof *w);
+    if (!w)
+        return NULL;
+    if (pi_work_alloc(m, in_system, stochastic, w) < 0) {
+        free(w);
+        return NULL;
+    }
+    return w;
+}
+
+void bc_sv_eval_free(bc_sv_eval *w)
+{
+    if (!w)
+        return;
+    pi_work_free(w);
+    free(w);
+}
+
+bc_solve_status bc_sv_eval_factorise(const bc_model *m, bc_sv_eval *w, const double *prob,
+                                     char *why, size_t cap)
+{
+    if (w->n == 0)
+        return BC_SOLVE_OK;
+    build_system_mixed(m, w, prob);
+    return factorise(w, why, cap);
+}
+
+double bc_sv_eval_flops(const bc_model *m, bc_sv_eval *w, const double *prob)
+{
+    if (w->n == 0)
+        return 0.0;
+    void *symbolic = NULL;
+    double flops = -1;
+    build_system_mixed(m, w, prob);
+    if (umfpack_dl_symbolic(w->n, w->n, w->Ap, w->Ai, w->Ax, &symbolic, w->control, w->info) ==
+        UMFPACK_OK)
+        flops = w->info[UMFPACK_FLOPS_ESTIMATE];
+    if (symbolic)
+        umfpack_dl_free_symbolic(&symbolic);
+    return flops;
+}
+
+int bc_sv_eval_solve(const bc_model *m, bc_sv_eval *w, int transpose, const double *b, double *x)
+{
+    if (w->n == 0) {
+        for (int32_t s = 0; s < m->n_states; s++)
+            x[s] = 0.0;
+        return 0;
+    }
+    assert(w->numeric);
+    for (int32_t i = 0; i < w->n; i++)
+        w->b[i] = b[w->state_of[i]];
+    return solve_into(m, w, transpose ? UMFPACK_At : UMFPACK_A, x);
 }

@@ -116,6 +116,34 @@ double bc_sv_bellman(const bc_model *m, double sgn, const double *v, double *tv,
  * (starting policy); -1 if it cannot be had (no memory, no proper policy). */
 double bc_sv_pi_lu_flops(const bc_model *m);
 
+/* --- Sparse LU evaluation of a policy (pi.c; shared with scoring) ------- */
+
+/* The matrix A = I - g P_pi (g = m->discount) over a set of states, the
+ * "system", factorised by UMFPACK with two steps of iterative refinement.
+ * Transitions to states outside the system are dropped: they must lead to
+ * states of value 0 (terminal states) or be accounted for by the caller in
+ * the right-hand side. */
+typedef struct bc_sv_eval bc_sv_eval;
+
+/* Workspace for the states with in_system[s] = 1 (NULL: the non-terminal
+ * states); stochastic = 1 makes room for rows that mix several pairs.
+ * NULL if out of memory. */
+bc_sv_eval *bc_sv_eval_new(const bc_model *m, const uint8_t *in_system, int stochastic);
+void bc_sv_eval_free(bc_sv_eval *w); /* NULL is allowed */
+/* Builds A for the stochastic policy prob ([n_pairs]; a row mixes the pairs
+ * of its state with these weights) and factorises it (workspace made with
+ * stochastic = 1).  BC_SOLVE_OK, or BC_SOLVE_FAILED / BC_SOLVE_NOMEM with
+ * why[] saying what went wrong (a singular or nearly singular matrix). */
+bc_solve_status bc_sv_eval_factorise(const bc_model *m, bc_sv_eval *w, const double *prob,
+                                     char *why, size_t cap);
+/* UMFPACK's estimate (an upper bound) of the flops of factorising A for the
+ * stochastic policy prob; -1 if it cannot be had.  Leaves no factors. */
+double bc_sv_eval_flops(const bc_model *m, bc_sv_eval *w, const double *prob);
+/* Solves A x = b (transpose: A^T x = b) with the last factors; b and x are
+ * indexed by state, b is read only on the system and x is 0 outside it.
+ * 0, or -1 if the solve failed or gave a non-finite x. */
+int bc_sv_eval_solve(const bc_model *m, bc_sv_eval *w, int transpose, const double *b, double *x);
+
 /* Default limits when o->max_iter is 0. */
 #define BC_SV_VI_MAX_SWEEPS 1000000
 #define BC_SV_PI_MAX_STEPS 10000

@@ -19,6 +19,7 @@ typedef struct {
 static const command commands[] = {
     {"check", bc_cli_check, "read and validate a model; summary and findings"},
     {"solve", bc_cli_solve, "solve a model (vi, pi, lp) with a proven bound; --compare runs all"},
+    {"score", bc_cli_score, "grade a learned Q-table or policy against the proven optimum"},
 };
 
 static void usage(FILE *f)

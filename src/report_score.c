@@ -58,14 +58,18 @@ static void figures_text(FILE *f, const bc_model *m, const bc_score *s)
         fprintf(f, "  tied greedy actions        %d state%s\n", (int)s->n_tied,
                 s->n_tied == 1 ? "" : "s");
     }
-    fprintf(f, "  acting optimally           %.4g%% of states, %.4g%% weighted by visits\n",
-            100 * s->agreement_states, 100 * s->agreement_weighted);
+    fprintf(f, "  acting optimally           %.4g%% of states", 100 * s->agreement_states);
+    if (isnan(s->agreement_weighted))
+        fputs(" (no visit weighting: the agent can get stuck)\n", f);
+    else
+        fprintf(f, ", %.4g%% weighted by visits\n", 100 * s->agreement_weighted);
     if (s->n_traps > 0) {
-        fprintf(f, "  traps (never terminate)    ");
+        fprintf(f, "  traps (may never finish)   ");
         for (int32_t k = 0; k < s->n_traps && k < 10; k++)
             fprintf(f, "%s%s", k ? ", " : "", bc_names_get(m->state_names, s->traps[k]));
-        fprintf(f, "%s; their value is %s\n", s->n_traps > 10 ? ", ..." : "",
-                m->objective == BC_MAX ? "-inf" : "+inf");
+        fprintf(f, "%s\n                             (from these the agent reaches a terminal state "
+                   "with probability < 1,\n                             so their value is %s)\n",
+                s->n_traps > 10 ? ", ..." : "", m->objective == BC_MAX ? "-inf" : "+inf");
         fprintf(f, "  reaches a terminal state   with probability %.6g from the initial distribution\n",
                 s->reach_probability);
     }

@@ -4,9 +4,10 @@ crossing a gusty yard to its charging pad (models/demo-yard-drone.bell), and a
 Q-table of the kind a tabular learner leaves behind (models/demo-yard-drone-q.csv).
 
 The Q-table is made, not learned: the optimal Q-values plus seeded noise, with
-two deliberate faults a grader must find — the learner never explored the
-north-east corner well, so there `hover` looks cheapest (a loop that never
-reaches the pad), and noise flips the best action in a few cells.
+two faults a grader must find — the learner never explored the north-east
+corner well, so there `hover` looks cheapest (a loop that never reaches the
+pad, which the wind can push the drone into), and noise flips the best action
+in a few cells.
 Invented scenario; run with /usr/bin/python3 (Debian numpy).
 """
 import sys
@@ -72,8 +73,9 @@ def main():
             row = []
             for a in ACTIONS:
                 q = cost[c] + sum(p / 10 * v[n] for n, p in outcomes(c, a))
-                q += rng.normal(0, 0.35)               # what a finite amount of training leaves
-                if a == "hover" and c in ((4, 3), (5, 3)):
+                noise = rng.normal(0, 0.3)             # what a finite amount of training leaves
+                q += abs(noise) if a == "hover" else noise
+                if a == "hover" and c == (5, 3):
                     q = v[c] - 1.5                     # the under-explored corner: hover looks best
                 row.append("%.4f" % q)
             f.write(name(c) + "," + ",".join(row) + "\n")
