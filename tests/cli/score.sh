@@ -1,0 +1,68 @@
+# score.sh — `bellcheck score` from the command line: readers, JSON fields, gates and exit statuses.
+. "$(dirname "$0")/../lib.sh"
+PY=/usr/bin/python3
+jget() { "$PY" -c "import json,sys; d=json.load(open(sys.argv[1])); print($2)" "$1"; }
+expect_eq() { if [ "$2" = "$3" ]; then pass "$1"; else fail "$1" "got '$2', want '$3'"; fi; }
+P=$ROOT/models/puterman-two-state.bell
+
+# Puterman, Markov Decision Processes (1994), two-state example, discount 0.95 (values from
+# memory): v*(s1) = -60/7 with a11; a12 in s1 gives 10 + 0.95 * (-20) = -9 (by hand),
+# so the policy {s1: a12} has regret 9 - 60/7 = 3/7 at s1, and 3/14 at the uniform initial distribution.
+printf 'state,action\ns1,a12\ns2,a21\n' > "$TMP/pol.csv"
+bc score "$P" --policy "$TMP/pol.csv" --json "$TMP/s.json"
+expect_status "policy with regret, no gate: exit 0" 0
+expect_eq "regret at s1 is 3/7 (by hand)" "$(jget "$TMP/s.json" "abs(d['regret']['max_state'] - 3/7) < 1e-9")" "True"
+expect_eq "regret at the initial distribution is 3/14 (by hand)" "$(jget "$TMP/s.json" "abs(d['regret']['initial'] - 3/14) < 1e-9")" "True"
+expect_eq "worst state is s1" "$(jget "$TMP/s.json" "d['regret']['worst_state']")" "s1"
+expect_eq "agreement 1/2 of states" "$(jget "$TMP/s.json" "d['agreement']['states']")" "0.5"
+expect_eq "agent value of s1 is -9 (by hand)" "$(jget "$TMP/s.json" "abs(d['values']['s1'] + 9) < 1e-9")" "True"
+expect_eq "JSON has every documented key" "$(jget "$TMP/s.json" "all(k in d for k in ['values','optimal_values','regret','residual','q_error','agreement','traps','gates'])")" "True"
+
+# Gates: regret 3/14 = 0.214...
+bc score "$P" --policy "$TMP/pol.csv" --max-regret 0.3
+expect_status "max-regret 0.3 holds: exit 0" 0
+bc score "$P" --policy "$TMP/pol.csv" --max-regret 0.2
+expect_status "max-regret 0.2 fails: exit 1" 1
+expect_in "failed gate is named" "$err" "max-regret"
+# |V*(initial)| = (60/7 + 20)/2 = 100/7; 1% of it is 0.1428... < 3/14.
+bc score "$P" --policy "$TMP/pol.csv" --max-regret 1%
+expect_status "max-regret 1% fails: exit 1" 1
+bc score "$P" --policy "$TMP/pol.csv" --max-regret 2%
+expect_status "max-regret 2% holds: exit 0" 0
+bc score "$P" --policy "$TMP/pol.csv" --min-agreement 0.9 --max-state-regret 1
+expect_status "min-agreement fails, state regret holds: exit 1" 1
+expect_in "only the failed gate is named" "$err" "min-agreement"
+expect_not_in "the passing gate is not named as failed" "$err" "max-state-regret failed"
+
+# A Q-table equal to Q* (by hand: Q*(s1,a11) = -60/7, Q*(s1,a12) = -9, Q*(s2,a21) = -20).
+printf 'state,a11,a12,a21\ns1,-8.571428571428571,-9,\ns2,,,-20\n' > "$TMP/q.csv"
+bc score "$P" --q "$TMP/q.csv" --json "$TMP/q.json" --max-residual 1e-9 --max-regret 0
+expect_status "Q* itself passes every gate: exit 0" 0
+expect_eq "Q*: regret 0" "$(jget "$TMP/q.json" "d['regret']['initial'] == 0")" "True"
+bc score "$P" --policy "$TMP/pol.csv" --max-residual 1
+expect_status "--max-residual without a Q-table: exit 2" 2
+
+# Bad input: unknown action, missing state.
+printf 'state,action\ns1,fly\ns2,a21\n' > "$TMP/bad.csv"
+bc score "$P" --policy "$TMP/bad.csv"
+expect_status "unknown action: exit 2" 2
+expect_in "unknown action named" "$err" "fly"
+printf 'state,action\ns1,a11\n' > "$TMP/part.csv"
+bc score "$P" --policy "$TMP/part.csv"
+expect_status "missing state: exit 2" 2
+bc score "$P" --policy "$TMP/part.csv" --missing skip
+expect_status "missing state with --missing skip: exit 0" 0
+bc score "$P"
+expect_status "no agent given: exit 2" 2
+
+# A policy that shuttles forever under discount 1 is a trap (hand-made model):
+# a <-> b on `loop`, each may instead `go` to the terminal end.
+printf 'discount 1\ninitial a\nterminal end\na loop -1 -> b\nb loop -1 -> a\na go -5 -> end\nb go -5 -> end\n' > "$TMP/shuttle.bell"
+printf 'state,action\na,loop\nb,loop\n' > "$TMP/shuttle.csv"
+bc score "$TMP/shuttle.bell" --policy "$TMP/shuttle.csv" --json "$TMP/t.json" --max-regret 100
+expect_status "trap fails a finite regret gate: exit 1" 1
+expect_eq "both states are traps" "$(jget "$TMP/t.json" "sorted(d['traps']['states'])")" "['a', 'b']"
+expect_eq "trap values are null in JSON" "$(jget "$TMP/t.json" "d['values']['a']")" "None"
+expect_eq "reach probability 0" "$(jget "$TMP/t.json" "d['traps']['reach_probability']")" "0"
+bc score "$TMP/shuttle.bell" --policy "$TMP/shuttle.csv"
+expect_in "text report prints -inf" "$out" "-inf"
