@@ -66,3 +66,27 @@ expect_eq "trap values are null in JSON" "$(jget "$TMP/t.json" "d['values']['a']
 expect_eq "reach probability 0" "$(jget "$TMP/t.json" "d['traps']['reach_probability']")" "0"
 bc score "$TMP/shuttle.bell" --policy "$TMP/shuttle.csv"
 expect_in "text report prints -inf" "$out" "-inf"
+
+# Equiprobable random policies given as stochastic policy files (state,action,prob).
+# random_policy MODEL OUT: every non-terminal state, each of its actions with probability 1/4.
+random_policy() {
+  { echo "state,action,prob"
+    grep -E '^r[0-9]+c[0-9]+ [a-z]+ ' "$1" | awk '{print $1 "," $2 ",0.25"}'; } > "$2"
+}
+# Sutton & Barto, Reinforcement Learning: An Introduction, 2nd ed. (2018), Figure 3.2:
+# state values of the equiprobable random policy on the Example 3.5 gridworld,
+# discount 0.9; first row 3.3 8.8 4.4 5.3 1.5 (from memory), to 0.1.
+random_policy "$ROOT/models/sutton-barto-3.5-gridworld.bell" "$TMP/rand35.csv"
+bc score "$ROOT/models/sutton-barto-3.5-gridworld.bell" --policy "$TMP/rand35.csv" --json "$TMP/r35.json"
+expect_status "Figure 3.2 policy file: exit 0" 0
+expect_eq "Figure 3.2 first row (S&B 2018, from memory)" \
+  "$(jget "$TMP/r35.json" "all(abs(d['values']['r0c%d' % c] - v) <= 0.1 for c, v in enumerate([3.3, 8.8, 4.4, 5.3, 1.5]))")" "True"
+# Sutton & Barto (2018), Figure 4.1 (k = infinity): random policy on the Example 4.1
+# gridworld, discount 1: 0 -14 -20 -22 / -14 -18 -20 -20 / -20 -20 -18 -14 / -22 -20 -14 0
+# (from memory; the book rounds to integers), to 0.5.
+random_policy "$ROOT/models/sutton-barto-4.1-gridworld.bell" "$TMP/rand41.csv"
+bc score "$ROOT/models/sutton-barto-4.1-gridworld.bell" --policy "$TMP/rand41.csv" --json "$TMP/r41.json"
+expect_status "Figure 4.1 policy file: exit 0" 0
+expect_eq "Figure 4.1 values (S&B 2018, from memory)" \
+  "$(jget "$TMP/r41.json" "all(abs(d['values']['r%dc%d' % (i // 4, i % 4)] - v) <= 0.5 for i, v in enumerate([0,-14,-20,-22,-14,-18,-20,-20,-20,-20,-18,-14,-22,-20,-14,0]))")" "True"
+expect_eq "Figure 4.1: no traps under the random policy" "$(jget "$TMP/r41.json" "d['traps']['count']")" "0"
