@@ -13,6 +13,7 @@
  * which is refused with a hint to write null.
  */
 #include "agent_internal.h"
+#include "json_internal.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -33,30 +34,6 @@ static bc__at json_at(const bc__agent_reader *r, char *buf, const char *state, c
     return (bc__at){buf, 0, 0};
 }
 
-/* A short description of what a value is, for "expected X, found Y". */
-static const char *found(const cJSON *v, char *buf, size_t cap)
-{
-    if (cJSON_IsObject(v))
-        return "an object";
-    if (cJSON_IsArray(v))
-        return "an array";
-    if (cJSON_IsBool(v))
-        return cJSON_IsTrue(v) ? "true" : "false";
-    if (cJSON_IsNull(v))
-        return "null";
-    if (cJSON_IsNumber(v)) {
-        char text[40];
-        bc__format_double(text, sizeof text, v->valuedouble);
-        snprintf(buf, cap, "the number %s", text);
-        return buf;
-    }
-    if (cJSON_IsString(v)) {
-        snprintf(buf, cap, "the string \"%.40s%s\"", v->valuestring,
-                 strlen(v->valuestring) > 40 ? "..." : "");
-        return buf;
-    }
-    return "an invalid value";
-}
 
 /* ---- the document -------------------------------------------------------- */
 
@@ -114,7 +91,7 @@ static const cJSON *top_object(bc__agent_reader *r, const cJSON *root)
     bc__at at = {r->label, 0, 0};
     if (!cJSON_IsObject(root)) {
         bc__fail(r, at, "expected a JSON object {\"%s\": ...}, found %s", r->json_top,
-                 found(root, fb, sizeof fb));
+                 bc__json_found(root, fb, sizeof fb));
         return NULL;
     }
     int bad = 0;
@@ -137,7 +114,7 @@ static const cJSON *top_object(bc__agent_reader *r, const cJSON *root)
                  r->json_top);
     else if (!cJSON_IsObject(top))
         bc__fail(r, at, "\"%s\" must be an object {state: ...}, found %s", r->json_top,
-                 found(top, fb, sizeof fb));
+                 bc__json_found(top, fb, sizeof fb));
     else
         return top;
     return NULL;
@@ -213,7 +190,7 @@ static void q_state(bc__agent_reader *r, const cJSON *item)
     if (!cJSON_IsObject(item)) {
         bc__state_bad(r, s);
         bc__fail(r, json_at(r, where, item->string, NULL), "expected an object {action: "
-                 "Q-value}, found %s", found(item, fb, sizeof fb));
+                 "Q-value}, found %s", bc__json_found(item, fb, sizeof fb));
         return;
     }
     for (const cJSON *cell = item->child; cell; cell = cell->next) {
@@ -225,7 +202,7 @@ static void q_state(bc__agent_reader *r, const cJSON *item)
             bc__q_value(r, s, a, cJSON_IsNull(cell) ? NAN : cell->valuedouble, at);
         } else {
             bc__state_bad(r, s);
-            bc__fail(r, at, "expected a number or null, found %s", found(cell, fb, sizeof fb));
+            bc__fail(r, at, "expected a number or null, found %s", bc__json_found(cell, fb, sizeof fb));
         }
     }
 }
@@ -250,7 +227,7 @@ static void policy_probs(bc__agent_reader *r, int32_t s, const cJSON *item, char
             bc__policy_prob(r, s, a, cell->valuedouble, at);
         } else {
             bc__state_bad(r, s);
-            bc__fail(r, at, "expected a probability, found %s", found(cell, fb, sizeof fb));
+            bc__fail(r, at, "expected a probability, found %s", bc__json_found(cell, fb, sizeof fb));
         }
     }
 }
@@ -273,7 +250,7 @@ static void policy_state(bc__agent_reader *r, const cJSON *item)
     } else {
         bc__state_bad(r, s);
         bc__fail(r, at, "expected an action name, an object {action: probability} or null, "
-                 "found %s", found(item, fb, sizeof fb));
+                 "found %s", bc__json_found(item, fb, sizeof fb));
     }
 }
 

@@ -14,6 +14,7 @@
  * nesting depth is checked (at most JSON_MAX_DEPTH) before cJSON recurses.
  */
 #include "bellcheck.h"
+#include "json_internal.h"
 
 #include <assert.h>
 #include <math.h>
@@ -121,8 +122,7 @@ static void shortest_decimal(double x, char *buf, size_t cap)
             *q = '.'; /* a decimal comma, should a caller have set such an LC_NUMERIC */
 }
 
-/* A short description of what was found, for "expected X, found Y". */
-static const char *found(const cJSON *v, char *buf, size_t cap)
+const char *bc__json_found(const cJSON *v, char *buf, size_t cap)
 {
     if (cJSON_IsObject(v))
         return "an object";
@@ -160,11 +160,11 @@ static int get_number(json_ctx *c, const cJSON *v, const char *what, bc_num *out
         if (bc_num_parse(v->valuestring, strlen(v->valuestring), out, big, &why) == 0)
             return 0;
         return fail(c, "expected %s as an exact number (like \"0.25\", \"1/3\", \"-2e3\"), "
-                    "found %s: %s", what, found(v, fb, sizeof fb), why ? why : "not a number");
+                    "found %s: %s", what, bc__json_found(v, fb, sizeof fb), why ? why : "not a number");
     }
     if (!cJSON_IsNumber(v))
         return fail(c, "expected %s (a number, or a string holding an exact number), found %s",
-                    what, found(v, fb, sizeof fb));
+                    what, bc__json_found(v, fb, sizeof fb));
     if (!isfinite(v->valuedouble))
         return fail(c, "expected %s, found a number too large for a double; "
                     "write it as a string to keep it exact", what);
@@ -181,7 +181,7 @@ static const char *get_string(json_ctx *c, const cJSON *v, const char *what)
     char fb[96];
     if (cJSON_IsString(v))
         return v->valuestring;
-    fail(c, "expected %s (a string), found %s", what, found(v, fb, sizeof fb));
+    fail(c, "expected %s (a string), found %s", what, bc__json_found(v, fb, sizeof fb));
     return NULL;
 }
 
@@ -220,7 +220,7 @@ static int want(json_ctx *c, const cJSON *v, int is_array, const char *what)
     if (is_array ? cJSON_IsArray(v) : cJSON_IsObject(v))
         return 0;
     return fail(c, "expected %s (%s), found %s", what, is_array ? "an array" : "an object",
-                found(v, fb, sizeof fb));
+                bc__json_found(v, fb, sizeof fb));
 }
 
 /* ---- keys --------------------------------------------------------------- */
@@ -283,14 +283,14 @@ static int read_identity(json_ctx *c, const cJSON *const *slot)
     int rc = 0;
     size_t old = path_key(c, "format");
     if (!cJSON_IsString(f) || strcmp(f->valuestring, "bell-json") != 0)
-        rc = fail(c, "expected the string \"bell-json\", found %s", found(f, fb, sizeof fb));
+        rc = fail(c, "expected the string \"bell-json\", found %s", bc__json_found(f, fb, sizeof fb));
     path_cut(c, old);
     path_key(c, "version");
     if (rc == 0 && !cJSON_IsNumber(v))
-        rc = fail(c, "expected the number 1, found %s", found(v, fb, sizeof fb));
+        rc = fail(c, "expected the number 1, found %s", bc__json_found(v, fb, sizeof fb));
     else if (rc == 0 && v->valuedouble != 1.0)
         rc = fail(c, "unsupported version: expected 1, found %s",
-                  found(v, fb, sizeof fb) + strlen("the number "));
+                  bc__json_found(v, fb, sizeof fb) + strlen("the number "));
     path_cut(c, old);
     return rc;
 }
@@ -421,7 +421,7 @@ static int read_succ(json_ctx *c, const cJSON *v, json_succ *out)
         char fb[96];
         return fail(c, "expected a successor [NAME, PROBABILITY, OUTCOME_REWARD] (an array of "
                     "1 to 3 items), found %s",
-                    n < 0 ? found(v, fb, sizeof fb) : n == 0 ? "an empty array"
+                    n < 0 ? bc__json_found(v, fb, sizeof fb) : n == 0 ? "an empty array"
                                                     : "an array of more than 3 items");
     }
     const cJSON *it = v->child;
@@ -775,7 +775,7 @@ static int read_document(json_ctx *c, const cJSON *root)
     if (!cJSON_IsObject(root)) {
         char fb[96];
         return fail(c, "expected a JSON object {\"format\": \"bell-json\", ...}, found %s",
-                    found(root, fb, sizeof fb));
+                    bc__json_found(root, fb, sizeof fb));
     }
     int rc = sort_keys(c, root, top_keys, K_COUNT, slot);
     if (read_identity(c, slot) < 0)
