@@ -240,8 +240,10 @@ static int components(const bc_model *m, const uint8_t *cand, const uint8_t *use
     return 0;
 }
 
-/* One refinement round; returns 1 if anything was removed, 0 if stable, -1 on failure. */
-static int zero_ec_round(const bc_model *m, uint8_t *cand, uint8_t *use, int32_t *comp)
+/* One round of the end-component refinement over the pairs with use[p]: drop
+ * pairs that can leave the candidates or their component, and states left
+ * without pairs.  Returns 1 if anything was removed, 0 if stable, -1 on failure. */
+static int ec_round(const bc_model *m, uint8_t *cand, uint8_t *use, int32_t *comp)
 {
     int changed = 0;
     for (int32_t s = 0; s < m->n_states; s++) {
@@ -276,28 +278,52 @@ static int zero_ec_round(const bc_model *m, uint8_t *cand, uint8_t *use, int32_t
     return changed;
 }
 
-/* States of end components made of zero-reward pairs: some policy can stay
- * there forever collecting nothing.  Refines candidate sets until stable. */
-static int zero_cycle_states(const bc_model *m, bc_findings *f)
+/* End components over the pairs with use[p] set on entry: on return cand[s]
+ * is 1 for states some policy (using only such pairs) can keep forever, use[p]
+ * marks the pairs that stay inside, comp[s] the component.  0 or -1. */
+static int end_components(const bc_model *m, uint8_t *cand, uint8_t *use, int32_t *comp)
+{
+    for (int32_t s = 0; s < m->n_states; s++)
+        cand[s] = !m->terminal[s];
+    for (int r; (r = ec_round(m, cand, use, comp)) != 0;)
+        if (r < 0)
+            return -1;
+    return 0;
+}
+
+/* Discount 1: states of end components made of zero-reward pairs (some policy
+ * can stay forever collecting nothing: a warning), and states of end
+ * components holding a pair that pays (max) or earns (min): some policy
+ * collects without bound there, so the model has no optimum (an error). */
+static int end_component_findings(const bc_model *m, bc_findings *f)
 {
     int32_t n = m->n_states;
     uint8_t *cand = malloc((size_t)n + 1), *use = malloc((size_t)m->n_pairs + 1);
+    uint8_t *bad_comp = calloc((size_t)n + 1, 1);
     int32_t *comp = malloc(((size_t)n + 1) * sizeof *comp);
     int rc = -1;
-    if (!cand || !use || !comp)
+    if (!cand || !use || !comp || !bad_comp)
         goto done;
-    for (int32_t s = 0; s < n; s++)
-        cand[s] = !m->terminal[s];
     for (int64_t p = 0; p < m->n_pairs; p++)
         use[p] = (uint8_t)zero_reward(m, p);
-    for (int r; (r = zero_ec_round(m, cand, use, comp)) != 0;)
-        if (r < 0)
-            goto done;
-    rc = collect(cand, 1, n, &f->zero_cycle_states, &f->n_zero_cycle_states);
+    if (end_components(m, cand, use, comp) < 0 ||
+        collect(cand, 1, n, &f->zero_cycle_states, &f->n_zero_cycle_states) < 0)
+        goto done;
+    memset(use, 1, (size_t)m->n_pairs);
+    if (end_components(m, cand, use, comp) < 0)
+        goto done;
+    double sgn = m->objective == BC_MAX ? 1 : -1;
+    for (int64_t p = 0; p < m->n_pairs; p++)
+        if (use[p] && cand[m->pair_state[p]] && sgn * m->reward[p] > 0)
+            bad_comp[comp[m->pair_state[p]]] = 1;
+    for (int32_t s = 0; s < n; s++)
+        cand[s] = cand[s] && bad_comp[comp[s]];
+    rc = collect(cand, 1, n, &f->unbounded, &f->n_unbounded);
 done:
     free(cand);
     free(use);
     free(comp);
+    free(bad_comp);
     return rc;
 }
 
@@ -309,7 +335,7 @@ int bc_analyse(const bc_model *m, bc_findings *f)
     if (unreachable_states(m, f) < 0)
         goto fail;
     if (m->discount == 1 && m->horizon == 0) {
-        if (no_exit_states(m, f) < 0 || zero_cycle_states(m, f) < 0)
+        if (no_exit_states(m, f) < 0 || end_component_findings(m, f) < 0)
             goto fail;
     }
     return 0;
@@ -323,5 +349,6 @@ void bc_findings_free(bc_findings *f)
     free(f->unreachable);
     free(f->no_exit);
     free(f->zero_cycle_states);
+    free(f->unbounded);
     memset(f, 0, sizeof *f);
 }

@@ -463,8 +463,10 @@ typedef struct {
     int32_t *unreachable;
     int32_t n_no_exit;          /* discount 1: no policy reaches a terminal state with probability 1 */
     int32_t *no_exit;
-    int32_t n_zero_cycle_states;/* discount 1: states on a cycle of zero-reward pairs */
+    int32_t n_zero_cycle_states;/* discount 1: states where a policy can stay forever on zero-reward pairs */
     int32_t *zero_cycle_states;
+    int32_t n_unbounded;        /* discount 1: states where a policy can stay forever and collect without bound */
+    int32_t *unbounded;
 } bc_findings;
 
 /* Computes the findings of m; 0, or -1 if out of memory. */

@@ -101,6 +101,18 @@ int bc_cli_common_option(bc_cli_common *c, int id, const char *arg)
 
 void bc_cli_report_unusable(const char *source, const bc_model *m, const bc_findings *fd)
 {
+    if (fd->n_unbounded > 0) {
+        fprintf(stderr,
+                "%s: error: with discount 1, a policy can stay forever in %d state%s while %s, "
+                "so no optimum exists; the model is not usable:",
+                source, (int)fd->n_unbounded, fd->n_unbounded == 1 ? "" : "s",
+                m->objective == BC_MAX ? "collecting positive rewards" : "earning negative costs");
+        for (int32_t k = 0; k < fd->n_unbounded && k < 8; k++)
+            fprintf(stderr, "%s %s", k ? "," : "", bc_names_get(m->state_names, fd->unbounded[k]));
+        fputs(fd->n_unbounded > 8 ? ", ...\n" : "\n", stderr);
+    }
+    if (fd->n_no_exit == 0)
+        return;
     fprintf(stderr,
             "%s: error: with discount 1, no policy reaches a terminal state with probability 1 "
             "from %d state%s, so their total reward is undefined; the model is not usable:",

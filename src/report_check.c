@@ -9,7 +9,7 @@
 int bc_findings_fatal(const bc_model *m, const bc_findings *fd)
 {
     (void)m;
-    return fd->n_no_exit > 0;
+    return fd->n_no_exit > 0 || fd->n_unbounded > 0;
 }
 
 static void name_list(FILE *f, const bc_model *m, const int32_t *states, int32_t n)
@@ -77,6 +77,13 @@ int bc_report_check_text(FILE *f, const bc_model *m, const bc_findings *fd, cons
                        "probability 1 from %d state%s, so their total reward is undefined: ",
                     (int)fd->n_no_exit, fd->n_no_exit == 1 ? "" : "s");
             name_list(f, m, fd->no_exit, fd->n_no_exit);
+        }
+        if (fd->n_unbounded > 0) {
+            fprintf(f, "  error    with discount 1, a policy can stay forever in %d state%s while "
+                       "%s, so no optimum exists: ",
+                    (int)fd->n_unbounded, fd->n_unbounded == 1 ? "" : "s",
+                    m->objective == BC_MAX ? "collecting positive rewards" : "earning negative costs");
+            name_list(f, m, fd->unbounded, fd->n_unbounded);
         }
         if (fd->n_zero_cycle_states == 0) {
             fputs("  ok       no policy can loop forever on zero rewards\n", f);
@@ -147,9 +154,11 @@ int bc_report_check_json(FILE *f, const bc_model *m, const bc_findings *fd, cons
     if (m->discount == 1 && m->horizon == 0) {
         json_state_list(&w, "no_exit", m, fd->no_exit, fd->n_no_exit);
         json_state_list(&w, "zero_reward_loops", m, fd->zero_cycle_states, fd->n_zero_cycle_states);
+        json_state_list(&w, "unbounded", m, fd->unbounded, fd->n_unbounded);
     } else {
         bc_jw_null(&w, "no_exit");
         bc_jw_null(&w, "zero_reward_loops");
+        bc_jw_null(&w, "unbounded");
     }
     bc_jw_end(&w, '}');
     bc_jw_finish(&w);

@@ -70,3 +70,20 @@ printf 'discount 0.5\na x 1 -> a 0.3333333333 b 0.6666666666\nb x 0 -> b\n' > "$
 bc check "$TMP/renorm.bell" --json "$TMP/r.json"
 expect_status "renormalised model exit 0" 0
 expect_eq "renormalised_lines is [2]" "$(jget "$TMP/r.json" "d['renormalised_lines']")" "[2]"
+
+# Hand-made, discount 1: staying in s on `a` pays +1 forever, so no optimum exists (an error);
+# the same loop with a cost of 1 under objective max is fine (every loop loses).
+printf 'discount 1\nterminal t\ninitial s\ns a 1 -> s\ns b 0 -> t\n' > "$TMP/pos.bell"
+bc check "$TMP/pos.bell" --json "$TMP/pos.json"
+expect_status "positive-reward loop under discount 1: exit 2" 2
+expect_eq "unbounded lists s" "$(jget "$TMP/pos.json" "d['unbounded']")" "['s']"
+bc solve "$TMP/pos.bell"
+expect_status "solve refuses the unbounded model (exit 2)" 2
+printf 'discount 1\nterminal t\ninitial s\ns a -1 -> s\ns b 0 -> t\n' > "$TMP/neg.bell"
+bc check "$TMP/neg.bell" --json "$TMP/neg.json"
+expect_status "negative-reward loop: exit 0" 0
+expect_eq "nothing unbounded" "$(jget "$TMP/neg.json" "d['unbounded']")" "[]"
+# Objective min: a loop that earns (negative cost) is unbounded.
+printf 'discount 1\nobjective min\nterminal t\ninitial s\ns a -1 -> s\ns b 0 -> t\n' > "$TMP/earn.bell"
+bc check "$TMP/earn.bell"
+expect_status "negative-cost loop under objective min: exit 2" 2
