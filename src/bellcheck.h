@@ -168,6 +168,7 @@ typedef struct bc_model {
     double *initial;           /* [n_states] initial distribution */
     bc_num *initial_exact;     /* [n_states] */
     int initial_given;         /* 1 if the source stated `initial` */
+    int32_t initial_renormalised_line; /* != 0 if `initial` summed within 1e-9 of 1 and was renormalised: its line, or -1 */
 
     int32_t n_renormalised;    /* pairs whose probabilities were renormalised on reading */
     int32_t *renormalised_lines; /* [n_renormalised] their source lines (0 if unknown) */

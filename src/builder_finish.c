@@ -185,6 +185,7 @@ static int fill_initial(bc_builder *b, bc_model *m, const int32_t *inv_state)
 {
     if (b->seen_flag[BC_DIR_INITIAL]) {
         m->initial_given = 1;
+        m->initial_renormalised_line = b->init_renorm_line;
         for (int64_t k = 0; k < b->n_init; k++)
             m->initial_exact[inv_state[b->init_state[k]]] = b->init_prob[k];
     } else {

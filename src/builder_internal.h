@@ -68,6 +68,7 @@ struct bc_builder {
     uint8_t *init_has_prob;
     int64_t n_init, cap_init;
     bc_linecol init_at;
+    int32_t init_renorm_line; /* line of a renormalised `initial` (-1 if it has none), 0 if not */
 
     /* Raw pairs, in input order. */
     int32_t *p_state, *p_action, *p_line, *p_col;

@@ -122,8 +122,11 @@ int bc_builder_initial_end(bc_builder *b, bc_pos at)
                 "`initial` lists several states, so each needs a probability (state `%s`)",
                 bc_names_get(b->states.names, b->init_state[k]));
     int renorm = 0;
-    return bc__check_distribution(b, b->init_prob, b->n_init, at, "the `initial` probabilities",
-                                  &renorm);
+    int rc = bc__check_distribution(b, b->init_prob, b->n_init, at, "the `initial` probabilities",
+                                    &renorm);
+    if (renorm)
+        b->init_renorm_line = at.line > 0 ? at.line : -1;
+    return rc;
 }
 
 /* ---- transition lines ---------------------------------------------------- */

@@ -59,6 +59,12 @@ int bc_report_check_text(FILE *f, const bc_model *m, const bc_findings *fd, cons
             fprintf(f, "%s %d", k ? "," : "", (int)m->renormalised_lines[k]);
         fputs(m->n_renormalised > LIST_MAX ? ", ...\n" : "\n", f);
     }
+    if (m->initial_renormalised_line > 0)
+        fprintf(f, "  warning  the initial distribution (line %d) summed to within 1e-9 of 1 and "
+                   "was renormalised exactly\n", (int)m->initial_renormalised_line);
+    else if (m->initial_renormalised_line < 0)
+        fputs("  warning  the initial distribution summed to within 1e-9 of 1 and was "
+              "renormalised exactly\n", f);
     fputs("  ok       no dead ends (every non-terminal state has an action)\n", f);
     if (fd->n_unreachable == 0) {
         fputs("  ok       every state is reachable from the initial distribution\n", f);
@@ -95,7 +101,8 @@ int bc_report_check_text(FILE *f, const bc_model *m, const bc_findings *fd, cons
             name_list(f, m, fd->zero_cycle_states, fd->n_zero_cycle_states);
         }
     }
-    int warnings = (m->n_renormalised > 0) + (fd->n_unreachable > 0) + (fd->n_zero_cycle_states > 0);
+    int warnings = (m->n_renormalised > 0) + (m->initial_renormalised_line != 0) +
+                   (fd->n_unreachable > 0) + (fd->n_zero_cycle_states > 0);
     if (bc_findings_fatal(m, fd))
         fputs("verdict: not usable (see the error above)\n", f);
     else if (warnings)
@@ -150,6 +157,7 @@ int bc_report_check_json(FILE *f, const bc_model *m, const bc_findings *fd, cons
     for (int32_t k = 0; k < m->n_renormalised; k++)
         bc_jw_int(&w, NULL, m->renormalised_lines[k]);
     bc_jw_end(&w, ']');
+    bc_jw_bool(&w, "initial_renormalised", m->initial_renormalised_line != 0);
     json_state_list(&w, "unreachable", m, fd->unreachable, fd->n_unreachable);
     if (m->discount == 1 && m->horizon == 0) {
         json_state_list(&w, "no_exit", m, fd->no_exit, fd->n_no_exit);

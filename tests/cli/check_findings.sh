@@ -87,3 +87,9 @@ expect_eq "nothing unbounded" "$(jget "$TMP/neg.json" "d['unbounded']")" "[]"
 printf 'discount 1\nobjective min\nterminal t\ninitial s\ns a -1 -> s\ns b 0 -> t\n' > "$TMP/earn.bell"
 bc check "$TMP/earn.bell"
 expect_status "negative-cost loop under objective min: exit 2" 2
+
+# A renormalised `initial` (0.5 + 0.4999999999 = 1 - 1e-10) is a finding, not only a stderr line.
+printf 'discount 1/2\ninitial a 0.5 b 0.4999999999\na x 1 -> b\nb x 1 -> a\n' > "$TMP/ir.bell"
+bc check "$TMP/ir.bell" --quiet --json "$TMP/ir.json"
+expect_status "renormalised initial: exit 0" 0
+expect_eq "initial_renormalised is true" "$(jget "$TMP/ir.json" "d['initial_renormalised']")" "True"
