@@ -369,6 +369,8 @@ int bc__read_npy_policy(bc__agent_reader *r, const unsigned char *buf, size_t le
         bc__row_begin(r, s, at);
         if (index < 0) {
             bc__row_empty(r, s, at); /* -1: no action, the policy does not cover s */
+        } else if (m->terminal[s]) {
+            bc__policy_action(r, s, -1, at); /* terminal states ignore any index (format-agents.md) */
         } else if (index >= m->n_actions) {
             bc__state_bad(r, s);
             bc__fail(r, at, "state '%s': action index %.0f is out of range (the model has %d "

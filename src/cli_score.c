@@ -145,6 +145,8 @@ static int parse_args(int argc, char **argv, score_args *a)
         return bc_cli_usage_error("score", "give the agent as exactly one of --q FILE or --policy FILE");
     if (!isnan(a->limits.max_residual) && !a->q_path)
         return bc_cli_usage_error("score", "--max-residual needs a Q-table (--q)");
+    if (!isnan(a->o.q_discount) && !a->q_path)
+        return bc_cli_usage_error("score", "--q-discount needs a Q-table (--q)");
     a->path = argv[optind];
     return 0;
 }
@@ -162,7 +164,14 @@ static int load_agent(const score_args *a, const bc_model *m, bc_qtable **q, bc_
     if (!ok || !a->c.quiet)
         bc_diag_print(&d, stderr);
     bc_diag_free(&d);
-    int32_t missing = *q ? (*q)->n_missing : *p ? (*p)->n_missing : 0;
+    int32_t missing = *q ? (*q)->n_missing : *p ? (*p)->n_missing : 0, live = 0;
+    for (int32_t s = 0; s < m->n_states; s++)
+        live += !m->terminal[s];
+    if (ok && missing == live) {
+        fprintf(stderr, "bellcheck score: the agent's file covers none of the %d non-terminal "
+                        "states; there is nothing to grade\n", (int)live);
+        return -1;
+    }
     if (ok && missing && !a->c.quiet)
         fprintf(stderr, "bellcheck score: %d state%s not covered by the agent's file; they are "
                         "left out of regret and agreement (--missing skip)\n",
@@ -197,7 +206,7 @@ static int run(const score_args *a, const bc_model *m, const bc_qtable *q, const
 {
     bc_score s;
     if (bc_score_compute(m, q, p, &a->o, &s) < 0) {
-        fprintf(stderr, "bellcheck score: %s\n", s.message);
+        fprintf(stderr, "bellcheck %s\n", s.message); /* the message starts with "score: " */
         bc_score_free(&s);
         return BC_EXIT_SOLVER;
     }
@@ -237,6 +246,13 @@ int bc_cli_score(int argc, char **argv)
         return BC_EXIT_SOLVER;
     }
     int usable = !bc_findings_fatal(m, &fd);
+    if (usable && m->horizon > 0) {
+        bc_cli_usage_error("score", "the model has a finite horizon (%d decisions); score grades "
+                                    "agents on infinite-horizon models only", (int)m->horizon);
+        bc_findings_free(&fd);
+        bc_model_free(m);
+        return BC_EXIT_USAGE;
+    }
     if (!usable)
         bc_cli_report_unusable(strcmp(a.path, "-") ? a.path : "<stdin>", m, &fd);
     bc_findings_free(&fd);

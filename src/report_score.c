@@ -58,7 +58,7 @@ static void figures_text(FILE *f, const bc_model *m, const bc_score *s)
         fprintf(f, "  tied greedy actions        %d state%s\n", (int)s->n_tied,
                 s->n_tied == 1 ? "" : "s");
     }
-    fprintf(f, "  acting optimally           %.4g%% of states", 100 * s->agreement_states);
+    fprintf(f, "  acting optimally           %.4g%% of covered states", 100 * s->agreement_states);
     if (isnan(s->agreement_weighted))
         fputs(" (no visit weighting: the agent can get stuck)\n", f);
     else
@@ -127,7 +127,7 @@ static void json_agent(bc_jw *w, const bc_model *m, const bc_score *s)
     bc_jw_object(w, "policy");
     for (int32_t st = 0; st < m->n_states; st++) {
         int64_t p = agent_pair(m, s, st);
-        if (p >= 0)
+        if (p >= 0 && !isnan(s->state_regret[st])) /* states the agent's file does not cover: omitted */
             bc_jw_string(w, bc_names_get(m->state_names, st),
                          bc_names_get(m->action_names, m->pair_action[p]));
     }

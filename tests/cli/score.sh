@@ -90,3 +90,22 @@ expect_status "Figure 4.1 policy file: exit 0" 0
 expect_eq "Figure 4.1 values (S&B 2018, from memory)" \
   "$(jget "$TMP/r41.json" "all(abs(d['values']['r%dc%d' % (i // 4, i % 4)] - v) <= 0.5 for i, v in enumerate([0,-14,-20,-22,-14,-18,-20,-20,-20,-20,-18,-14,-22,-20,-14,0]))")" "True"
 expect_eq "Figure 4.1: no traps under the random policy" "$(jget "$TMP/r41.json" "d['traps']['count']")" "0"
+
+# Found in review. A gap of 5e-7 on values near 1e6 is a suboptimal action (by hand:
+# Q*(s0,a) = 1000000, Q*(s0,b) = 999999.9999995), whatever the size of the values.
+printf 'discount 0.9\ninitial s0\nterminal T\ns0 a 1000000 -> T\ns0 b 999999.9999995 -> T\n' > "$TMP/big.bell"
+printf 'state,action\ns0,b\n' > "$TMP/big.csv"
+bc score "$TMP/big.bell" --policy "$TMP/big.csv" --min-agreement 1
+expect_status "a 5e-7 gap at |V| = 1e6 fails min-agreement 1: exit 1" 1
+# A horizon model is unsupported input (exit 2), not a solver failure.
+printf 'discount 1\nhorizon 3\ns a 1 -> s\n' > "$TMP/h.bell"
+printf 'state,action\ns,a\n' > "$TMP/h.csv"
+bc score "$TMP/h.bell" --policy "$TMP/h.csv"
+expect_status "horizon model: exit 2" 2
+bc score "$P" --policy "$TMP/pol.csv" --q-discount 0.5
+expect_status "--q-discount without a Q-table: exit 2" 2
+printf 'state,a11,a12,a21\n' > "$TMP/empty-q.csv"
+bc score "$P" --q "$TMP/empty-q.csv" --missing skip
+expect_status "a table covering no state: exit 2" 2
+bc score "$P" --policy "$TMP/part.csv" --missing skip --json "$TMP/part.json"
+expect_eq "an uncovered state has no agent action in JSON" "$(jget "$TMP/part.json" "'s2' in d['policy']")" "False"
