@@ -422,6 +422,33 @@ static int parse_fraction(const char *s, size_t len, bc_num *out, bc_bigtab *big
     return rc;
 }
 
+/* An optional exponent [eE][+-]?digits at s[*i] into *exp10 (|exp10| <= BC_NUM_MAX_EXPONENT).
+ * Returns 0, or -1 with *why set. */
+static int scan_exponent(const char *s, size_t len, size_t *i, long *exp10, const char **why)
+{
+    if (*i >= len || (s[*i] != 'e' && s[*i] != 'E'))
+        return 0;
+    (*i)++;
+    int neg = *i < len && s[*i] == '-';
+    if (*i < len && (s[*i] == '+' || s[*i] == '-'))
+        (*i)++;
+    size_t start = *i;
+    if (scan_int(s, len, i, 0) == 0) {
+        *why = "expected digits in the exponent";
+        return -1;
+    }
+    long e = 0;
+    for (size_t k = start; k < *i; k++) {
+        e = e * 10 + (s[k] - '0');
+        if (e > BC_NUM_MAX_EXPONENT) {
+            *why = "exponent out of range (at most 4096 in absolute value)";
+            return -1;
+        }
+    }
+    *exp10 = neg ? -e : e;
+    return 0;
+}
+
 int bc_num_parse(const char *s, size_t len, bc_num *out, bc_bigtab *big, const char **why)
 {
     static const char *bad = "expected a number: an integer, a decimal like 0.125 or 1e-3, "
@@ -458,26 +485,8 @@ int bc_num_parse(const char *s, size_t len, bc_num *out, bc_bigtab *big, const c
         frac_end = i;
     }
     long exp10 = 0;
-    if (i < len && (s[i] == 'e' || s[i] == 'E')) {
-        i++;
-        int eneg = i < len && s[i] == '-';
-        if (i < len && (s[i] == '+' || s[i] == '-'))
-            i++;
-        size_t estart = i;
-        if (scan_int(s, len, &i, 0) == 0) {
-            *why = "expected digits in the exponent";
-            return -1;
-        }
-        for (size_t k = estart; k < i; k++) {
-            exp10 = exp10 * 10 + (s[k] - '0');
-            if (exp10 > BC_NUM_MAX_EXPONENT) {
-                *why = "exponent out of range (at most 4096 in absolute value)";
-                return -1;
-            }
-        }
-        if (eneg)
-            exp10 = -exp10;
-    }
+    if (scan_exponent(s, len, &i, &exp10, why) < 0)
+        return -1;
     if (i != len) {
         *why = bad;
         return -1;
