@@ -11,3 +11,10 @@ for f in sutton-barto-3.5-gridworld sutton-barto-4.1-gridworld sutton-barto-4.3-
   else fail "$f.bell is generated" "differs from a fresh run of its generator"; fi
 done
 
+
+# The invented demo agent (tests/tools/gen_demo_drone.py, seeded): model and Q-table.
+"$PY" "$TOOLS/gen_demo_drone.py" "$TMP/demo-yard-drone.bell" "$TMP/demo-yard-drone-q.csv"
+for f in demo-yard-drone.bell demo-yard-drone-q.csv; do
+  if cmp -s "$TMP/$f" "$MODELS/$f"; then pass "$f is generated"
+  else fail "$f is generated" "differs from a fresh run of its generator"; fi
+done
