@@ -41,15 +41,8 @@ static bc__at json_at(const bc__agent_reader *r, char *buf, const char *state, c
 static int syntax_fail(bc__agent_reader *r, const char *buf, size_t len, size_t off,
                        const char *what)
 {
-    int32_t line = 1, col = 1;
-    for (size_t i = 0; i < off && i < len; i++) {
-        if (buf[i] == '\n') {
-            line++;
-            col = 1;
-        } else if (((unsigned char)buf[i] & 0xC0) != 0x80) {
-            col++; /* characters, not UTF-8 continuation bytes */
-        }
-    }
+    int32_t line, col;
+    bc__json_line_col(buf, len, off, &line, &col);
     return bc__fail(r, (bc__at){r->label, line, col}, "%s", what);
 }
 

@@ -585,18 +585,25 @@ static size_t depth_excess(const char *buf, size_t len)
     return len;
 }
 
+void bc__json_line_col(const char *buf, size_t len, size_t off, int32_t *line, int32_t *col)
+{
+    *line = 1;
+    *col = 1;
+    for (size_t i = 0; i < off && i < len; i++) {
+        if (buf[i] == '\n') {
+            ++*line;
+            *col = 1;
+        } else if (((unsigned char)buf[i] & 0xC0) != 0x80) {
+            ++*col; /* columns count characters, not UTF-8 continuation bytes */
+        }
+    }
+}
+
 /* Reports a problem at byte offset off of buf as label:line:col. */
 static void fail_at(json_ctx *c, const char *buf, size_t len, size_t off, const char *msg)
 {
-    int32_t line = 1, col = 1;
-    for (size_t i = 0; i < off && i < len; i++) {
-        if (buf[i] == '\n') {
-            line++;
-            col = 1;
-        } else if (((unsigned char)buf[i] & 0xC0) != 0x80) {
-            col++; /* columns count characters, not UTF-8 continuation bytes */
-        }
-    }
+    int32_t line, col;
+    bc__json_line_col(buf, len, off, &line, &col);
     bc_diag_add(c->d, BC_ERROR, c->label, line, col, "%s", msg);
     c->n_errors++;
 }

@@ -58,16 +58,6 @@ static char path_buf[4096];
 
 /* ---- helpers ------------------------------------------------------------ */
 
-static bc_model *read_model(const char *text)
-{
-    bc_diag d;
-    bc_diag_init(&d);
-    bc_model *m = bc_read_bell_text(text, strlen(text), "t.bell", &d);
-    if (!m)
-        bc_diag_print(&d, stdout);
-    bc_diag_free(&d);
-    return m;
-}
 
 static const char *path_of(const char *name)
 {
@@ -753,8 +743,8 @@ int main(void)
         CHECK(0, "a temporary directory");
         UNIT_DONE();
     }
-    bc_model *m = read_model(greenhouse_text);
-    bc_model *lamps = read_model(lamps_text);
+    bc_model *m = unit_read_model(greenhouse_text);
+    bc_model *lamps = unit_read_model(lamps_text);
     CHECK(m && m->n_pairs == 7 && m->n_states == 4 && m->terminal[3], "greenhouse model reads");
     CHECK(lamps && lamps->n_pairs == 4, "lamps model reads");
     if (!m) {

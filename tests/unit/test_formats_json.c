@@ -14,16 +14,6 @@
 
 /* ---- helpers ------------------------------------------------------------ */
 
-static bc_model *read_text(const char *text)
-{
-    bc_diag d;
-    bc_diag_init(&d);
-    bc_model *m = bc_read_bell_text(text, strlen(text), "t.bell", &d);
-    if (!m)
-        bc_diag_print(&d, stdout);
-    bc_diag_free(&d);
-    return m;
-}
 
 static bc_model *read_json(const char *text, bc_diag *d)
 {
@@ -157,7 +147,7 @@ static const char *model_diff(const bc_model *a, const bc_model *b)
 static void round_trip(const char *label, const char *text)
 {
     char name[160];
-    bc_model *a = read_text(text);
+    bc_model *a = unit_read_model(text);
     snprintf(name, sizeof name, "%s: the text reads", label);
     CHECK(a != NULL, name);
     if (!a)
@@ -165,7 +155,7 @@ static void round_trip(const char *label, const char *text)
     char *json = write_to_string(a, bc_write_bell_json);
     bc_model *b = json ? read_json_ok(json) : NULL;
     char *text2 = b ? write_to_string(b, bc_write_bell_text) : NULL;
-    bc_model *c = text2 ? read_text(text2) : NULL;
+    bc_model *c = text2 ? unit_read_model(text2) : NULL;
     const char *d1 = model_diff(a, b), *d2 = model_diff(a, c);
     snprintf(name, sizeof name, "%s: text -> JSON -> model is the same model (%s)", label,
              d1 ? d1 : "all fields");
@@ -280,8 +270,8 @@ static void test_round_trips(void)
 /* The text writer: expected lines follow from the model text and the number rules. */
 static void test_text_writer(void)
 {
-    bc_model *dock = read_text(dock_text), *kiln = read_text(kiln_text);
-    bc_model *rooms = read_text(rooms_text);
+    bc_model *dock = unit_read_model(dock_text), *kiln = unit_read_model(kiln_text);
+    bc_model *rooms = unit_read_model(rooms_text);
     char *t = dock ? write_to_string(dock, bc_write_bell_text) : NULL;
     CHECK(has(t, "\nloaded drive -2 -> depot 0.8 10 loaded 0.15 scrapped 0.05\n"),
           "text: outcome reward written after its probability");
@@ -339,7 +329,7 @@ static size_t key_at(const char *s, const char *k)
 
 static void test_json_writer(void)
 {
-    bc_model *kiln = read_text(kiln_text);
+    bc_model *kiln = unit_read_model(kiln_text);
     char *j = kiln ? write_to_string(kiln, bc_write_bell_json) : NULL;
     static const char *const order[] = {"format", "version", "name", "discount", "objective",
                                         "horizon", "states", "actions", "initial", "terminal",

@@ -32,4 +32,19 @@ static int unit_failed;
 
 #define UNIT_DONE() return unit_failed ? 1 : 0
 
+#ifdef BELLCHECK_H
+#include <string.h>
+/* Reads a .bell model from text (labelled t.bell); prints the messages and returns NULL on error. */
+static inline bc_model *unit_read_model(const char *text)
+{
+    bc_diag d;
+    bc_diag_init(&d);
+    bc_model *m = bc_read_bell_text(text, strlen(text), "t.bell", &d);
+    if (!m)
+        bc_diag_print(&d, stdout);
+    bc_diag_free(&d);
+    return m;
+}
+#endif
+
 #endif
