@@ -33,50 +33,11 @@
 #include "score_internal.h"
 #include "solver_internal.h"
 
-/* For each state t, the pairs p with use[p] that reach t with positive
- * probability: pair_of[start[t] .. start[t+1]-1] (a pair repeats if it
- * lists t twice). */
-typedef struct {
-    int64_t *start;
-    int64_t *pair_of;
-} rev_edges;
-
-static void rev_free(rev_edges *r)
-{
-    free(r->start);
-    free(r->pair_of);
-}
-
-static int rev_build(const bc_model *m, const uint8_t *use, rev_edges *r)
-{
-    r->start = calloc((size_t)m->n_states + 1, sizeof *r->start);
-    r->pair_of = malloc((size_t)(m->n_trans ? m->n_trans : 1) * sizeof *r->pair_of);
-    if (!r->start || !r->pair_of) {
-        rev_free(r);
-        return -1;
-    }
-    for (int64_t p = 0; p < m->n_pairs; p++)
-        for (int64_t k = m->pair_trans_start[p]; use[p] && k < m->pair_trans_start[p + 1]; k++)
-            if (m->prob[k] > 0.0)
-                r->start[m->succ_state[k] + 1]++;
-    for (int32_t t = 0; t < m->n_states; t++)
-        r->start[t + 1] += r->start[t];
-    /* Counting-sort fill with start[t] as a cursor, then shift back. */
-    for (int64_t p = 0; p < m->n_pairs; p++)
-        for (int64_t k = m->pair_trans_start[p]; use[p] && k < m->pair_trans_start[p + 1]; k++)
-            if (m->prob[k] > 0.0)
-                r->pair_of[r->start[m->succ_state[k]]++] = p;
-    for (int32_t t = m->n_states; t > 0; t--)
-        r->start[t] = r->start[t - 1];
-    r->start[0] = 0;
-    return 0;
-}
-
 /* Backward search: adds to mark[] every state with a pair (in r) that
  * reaches a marked state with positive probability, until none is left;
  * choice[s] (if not NULL) gets the pair that added s.  queue holds
  * n_states entries. */
-static void backward_closure(const bc_model *m, const rev_edges *r, uint8_t *mark, int32_t *queue,
+static void backward_closure(const bc_model *m, const bc_reverse *r, uint8_t *mark, int32_t *queue,
                              int64_t *choice)
 {
     int32_t head = 0, tail = 0;
@@ -104,14 +65,14 @@ int32_t bc_sc_find_traps(const bc_model *m, const double *prob, uint8_t *trap)
     uint8_t *use = malloc((size_t)(m->n_pairs ? m->n_pairs : 1));
     uint8_t *reaches = malloc(n);
     int32_t *queue = malloc(n * sizeof *queue);
-    rev_edges r = {NULL, NULL};
+    bc_reverse r = {NULL, NULL};
     if (!use || !reaches || !queue) {
         free(use), free(reaches), free(queue);
         return -1;
     }
     for (int64_t p = 0; p < m->n_pairs; p++)
         use[p] = prob[p] > 0.0;
-    if (rev_build(m, use, &r) < 0) {
+    if (bc_reverse_build(m, use, &r) < 0) {
         free(use), free(reaches), free(queue);
         return -1;
     }
@@ -128,7 +89,7 @@ int32_t bc_sc_find_traps(const bc_model *m, const double *prob, uint8_t *trap)
         assert(!(trap[s] && m->terminal[s]));
         count += trap[s];
     }
-    rev_free(&r);
+    bc_reverse_free(&r);
     free(use), free(reaches), free(queue);
     return count;
 }
@@ -164,13 +125,13 @@ int bc_sc_reach_probability(const bc_model *m, const double *prob, const uint8_t
     int32_t *queue = malloc(n * sizeof *queue);
     uint8_t *use = malloc((size_t)(m->n_pairs ? m->n_pairs : 1));
     double *b = calloc(n, sizeof *b), *h = calloc(n, sizeof *h);
-    rev_edges r = {NULL, NULL};
+    bc_reverse r = {NULL, NULL};
     int rc = -1;
     if (!leaky || !queue || !use || !b || !h)
         goto out_of_memory;
     for (int64_t p = 0; p < m->n_pairs; p++)
         use[p] = prob[p] > 0.0;
-    if (rev_build(m, use, &r) < 0)
+    if (bc_reverse_build(m, use, &r) < 0)
         goto out_of_memory;
     memcpy(leaky, m->terminal, (size_t)m->n_states);
     backward_closure(m, &r, leaky, queue, NULL);
@@ -209,7 +170,7 @@ int bc_sc_reach_probability(const bc_model *m, const double *prob, const uint8_t
 out_of_memory:
     snprintf(msg, cap, "score: out of memory finding the probability of termination");
 done:
-    rev_free(&r);
+    bc_reverse_free(&r);
     free(leaky), free(queue), free(use), free(b), free(h);
     return rc;
 }
@@ -219,7 +180,7 @@ done:
  * counts p's positive transitions leaving C, good[s] the allowed pairs of s
  * with outside 0; a state whose good count drops to 0 leaves C, which may
  * raise the outside counts of the pairs leading to it.  Linear time. */
-static int largest_closed_set(const bc_model *m, const uint8_t *allowed, const rev_edges *r,
+static int largest_closed_set(const bc_model *m, const uint8_t *allowed, const bc_reverse *r,
                               uint8_t *in_c, int32_t *queue)
 {
     int64_t *outside = calloc((size_t)(m->n_pairs ? m->n_pairs : 1), sizeof *outside);
@@ -277,13 +238,13 @@ int32_t bc_sc_avoidable(const bc_model *m, const uint8_t *allowed, uint8_t *stuc
 {
     const size_t n = (size_t)(m->n_states ? m->n_states : 1);
     int32_t *queue = malloc(n * sizeof *queue);
-    rev_edges r = {NULL, NULL};
-    if (!queue || rev_build(m, allowed, &r) < 0) {
+    bc_reverse r = {NULL, NULL};
+    if (!queue || bc_reverse_build(m, allowed, &r) < 0) {
         free(queue);
         return -1;
     }
     if (largest_closed_set(m, allowed, &r, stuck, queue) < 0) {
-        rev_free(&r);
+        bc_reverse_free(&r);
         free(queue);
         return -1;
     }
@@ -297,7 +258,7 @@ int32_t bc_sc_avoidable(const bc_model *m, const uint8_t *allowed, uint8_t *stuc
         assert(!stuck[s] || (choice[s] >= 0 && allowed[choice[s]]));
         count += stuck[s];
     }
-    rev_free(&r);
+    bc_reverse_free(&r);
     free(queue);
     return count;
 }

@@ -251,46 +251,6 @@ double bc_sv_bellman(const bc_model *m, double sgn, const double *v, double *tv,
 /* Proper policies                                                          */
 /* ------------------------------------------------------------------------ */
 
-/* Reverse edges of the whole model: for each state t, the pairs that reach t
- * with positive probability (rev_pair[rev_start[t] .. rev_start[t+1]-1], in
- * increasing pair order; a pair repeats if it lists t twice). */
-typedef struct {
-    int64_t *rev_start;
-    int64_t *rev_pair;
-} reverse_pairs;
-
-static int reverse_pairs_build(const bc_model *m, reverse_pairs *r)
-{
-    r->rev_start = calloc((size_t)m->n_states + 1, sizeof *r->rev_start);
-    r->rev_pair = malloc((size_t)(m->n_trans ? m->n_trans : 1) * sizeof *r->rev_pair);
-    if (!r->rev_start || !r->rev_pair) {
-        free(r->rev_start);
-        free(r->rev_pair);
-        return -1;
-    }
-    for (int64_t k = 0; k < m->n_trans; k++)
-        if (m->prob[k] > 0.0)
-            r->rev_start[m->succ_state[k] + 1]++;
-    for (int32_t t = 0; t < m->n_states; t++)
-        r->rev_start[t + 1] += r->rev_start[t];
-    /* Fill using rev_start[t] as a cursor, then shift back: the usual
-     * counting-sort transpose, which keeps pairs in increasing order. */
-    for (int64_t p = 0; p < m->n_pairs; p++)
-        for (int64_t k = m->pair_trans_start[p]; k < m->pair_trans_start[p + 1]; k++)
-            if (m->prob[k] > 0.0)
-                r->rev_pair[r->rev_start[m->succ_state[k]]++] = p;
-    for (int32_t t = m->n_states; t > 0; t--)
-        r->rev_start[t] = r->rev_start[t - 1];
-    r->rev_start[0] = 0;
-    return 0;
-}
-
-static void reverse_pairs_free(reverse_pairs *r)
-{
-    free(r->rev_start);
-    free(r->rev_pair);
-}
-
 /* pair_ok[p] = allowed and every positive-probability successor is in U. */
 static void mark_pairs_inside(const bc_model *m, const uint8_t *allowed, const uint8_t *in_u,
                               uint8_t *pair_ok)
@@ -308,7 +268,7 @@ static void mark_pairs_inside(const bc_model *m, const uint8_t *allowed, const u
  * ok; in_r gets the states reached, policy the pair that reached each (a pair
  * that moves one layer closer with positive probability).  Returns the
  * number of states reached. */
-static int32_t layered_search(const bc_model *m, const reverse_pairs *r, const uint8_t *pair_ok,
+static int32_t layered_search(const bc_model *m, const bc_reverse *r, const uint8_t *pair_ok,
                               uint8_t *in_r, int32_t *queue, int64_t *policy)
 {
     int32_t head = 0, tail = 0;
@@ -320,8 +280,8 @@ static int32_t layered_search(const bc_model *m, const reverse_pairs *r, const u
     }
     while (head < tail) {
         int32_t t = queue[head++];
-        for (int64_t i = r->rev_start[t]; i < r->rev_start[t + 1]; i++) {
-            int64_t p = r->rev_pair[i];
+        for (int64_t i = r->start[t]; i < r->start[t + 1]; i++) {
+            int64_t p = r->pair_of[i];
             int32_t s = m->pair_state[p];
             if (!pair_ok[p] || in_r[s])
                 continue;
@@ -337,15 +297,15 @@ int64_t bc_sv_proper_policy(const bc_model *m, const uint8_t *allowed, int64_t *
                             int32_t *first_bad)
 {
     const size_t n = (size_t)m->n_states;
-    reverse_pairs r;
-    if (reverse_pairs_build(m, &r) < 0)
+    bc_reverse r;
+    if (bc_reverse_build(m, NULL, &r) < 0)
         return -1;
     uint8_t *in_u = malloc(n ? n : 1), *in_r = malloc(n ? n : 1);
     uint8_t *pair_ok = malloc((size_t)(m->n_pairs ? m->n_pairs : 1));
     int32_t *queue = malloc((n ? n : 1) * sizeof *queue);
     if (!in_u || !in_r || !pair_ok || !queue) {
         free(in_u), free(in_r), free(pair_ok), free(queue);
-        reverse_pairs_free(&r);
+        bc_reverse_free(&r);
         return -1;
     }
     /* U shrinks to the states from which the terminal set can be reached
@@ -374,7 +334,7 @@ int64_t bc_sv_proper_policy(const bc_model *m, const uint8_t *allowed, int64_t *
         }
     }
     free(in_u), free(in_r), free(pair_ok), free(queue);
-    reverse_pairs_free(&r);
+    bc_reverse_free(&r);
     return bad;
 }
 

@@ -66,28 +66,6 @@ static int unreachable_states(const bc_model *m, bc_findings *f)
     return rc;
 }
 
-/* Reverse adjacency: for each state, the pairs that can move into it.
- * rev_start[s]..rev_start[s+1] index rev_pair. */
-static int reverse_edges(const bc_model *m, int64_t **rev_start, int32_t **rev_pair)
-{
-    int32_t n = m->n_states;
-    *rev_start = calloc((size_t)n + 2, sizeof **rev_start);
-    *rev_pair = malloc((size_t)(m->n_trans ? m->n_trans : 1) * sizeof **rev_pair);
-    if (!*rev_start || !*rev_pair)
-        return -1;
-    /* Only positive-probability transitions are edges: a written 0 leads nowhere. */
-    for (int64_t t = 0; t < m->n_trans; t++)
-        if (positive(m, t))
-            (*rev_start)[m->succ_state[t] + 2]++;
-    for (int32_t s = 0; s < n; s++)
-        (*rev_start)[s + 2] += (*rev_start)[s + 1];
-    for (int64_t p = 0; p < m->n_pairs; p++)
-        for (int64_t t = m->pair_trans_start[p]; t < m->pair_trans_start[p + 1]; t++)
-            if (positive(m, t))
-                (*rev_pair)[(*rev_start)[m->succ_state[t] + 1]++] = (int32_t)p;
-    return 0; /* now rev_start[s]..rev_start[s+1] are the pairs entering s */
-}
-
 /* States from which some policy reaches a terminal state with probability 1
  * (the classical fixed point: keep the states that can reach the terminal set
  * using only pairs whose every successor is kept, until nothing changes).
@@ -95,13 +73,12 @@ static int reverse_edges(const bc_model *m, int64_t **rev_start, int32_t **rev_p
 static int no_exit_states(const bc_model *m, bc_findings *f)
 {
     int32_t n = m->n_states;
-    int64_t *rev_start = NULL;
-    int32_t *rev_pair = NULL;
+    bc_reverse rev = {NULL, NULL};
     uint8_t *keep = malloc((size_t)n + 1), *reach = malloc((size_t)n + 1);
     uint8_t *pair_ok = malloc((size_t)m->n_pairs + 1);
     int32_t *queue = malloc(((size_t)n + 1) * sizeof *queue);
     int rc = -1;
-    if (!keep || !reach || !pair_ok || !queue || reverse_edges(m, &rev_start, &rev_pair) < 0)
+    if (!keep || !reach || !pair_ok || !queue || bc_reverse_build(m, NULL, &rev) < 0)
         goto done;
     memset(keep, 1, (size_t)n);
     for (int changed = 1; changed;) {
@@ -120,8 +97,9 @@ static int no_exit_states(const bc_model *m, bc_findings *f)
             }
         while (head < tail) {
             int32_t u = queue[head++];
-            for (int64_t k = rev_start[u]; k < rev_start[u + 1]; k++) {
-                int32_t p = rev_pair[k], s = m->pair_state[p];
+            for (int64_t k = rev.start[u]; k < rev.start[u + 1]; k++) {
+                int64_t p = rev.pair_of[k];
+                int32_t s = m->pair_state[p];
                 if (!reach[s] && pair_ok[p]) {
                     reach[s] = 1;
                     queue[tail++] = s;
@@ -141,8 +119,7 @@ done:
     free(reach);
     free(pair_ok);
     free(queue);
-    free(rev_start);
-    free(rev_pair);
+    bc_reverse_free(&rev);
     return rc;
 }
 

@@ -186,6 +186,17 @@ const char *bc_model_check_invariants(const bc_model *m);
 void bc_model_reward_mpq(const bc_model *m, int64_t p, mpq_t out);
 /* Index of the pair of state s with action a, or -1. */
 int64_t bc_model_find_pair(const bc_model *m, int32_t s, int32_t a);
+/* The transposed transition graph: for each state t, the pairs that reach t
+ * with positive probability, pair_of[start[t] .. start[t+1]-1], in increasing
+ * pair order (a pair repeats if it lists t twice). */
+typedef struct {
+    int64_t *start;   /* [n_states + 1] */
+    int64_t *pair_of; /* [n_trans] (only start[n_states] entries used) */
+} bc_reverse;
+
+/* Builds r over the pairs p with use[p] (use NULL: every pair); 0, or -1 if out of memory. */
+int bc_reverse_build(const bc_model *m, const uint8_t *use, bc_reverse *r);
+void bc_reverse_free(bc_reverse *r); /* frees both arrays; r can be built again */
 /* sum_s initial[s] * v[s]. */
 double bc_model_initial_value(const bc_model *m, const double *v);
 

@@ -173,3 +173,44 @@ double bc_model_initial_value(const bc_model *m, const double *v)
             sum += m->initial[s] * v[s];
     return sum;
 }
+
+/* A transition counts as an edge when its exact probability is positive (a
+ * probability too small for a double is still an edge). */
+static int edge(const bc_model *m, int64_t t)
+{
+    return m->prob[t] > 0 || bc_num_sign(m->prob_exact[t], m->big) > 0;
+}
+
+int bc_reverse_build(const bc_model *m, const uint8_t *use, bc_reverse *r)
+{
+    r->start = calloc((size_t)m->n_states + 1, sizeof *r->start);
+    r->pair_of = malloc((size_t)(m->n_trans ? m->n_trans : 1) * sizeof *r->pair_of);
+    if (!r->start || !r->pair_of) {
+        bc_reverse_free(r);
+        return -1;
+    }
+    for (int64_t p = 0; p < m->n_pairs; p++)
+        for (int64_t k = m->pair_trans_start[p]; (!use || use[p]) && k < m->pair_trans_start[p + 1]; k++)
+            if (edge(m, k))
+                r->start[m->succ_state[k] + 1]++;
+    for (int32_t t = 0; t < m->n_states; t++)
+        r->start[t + 1] += r->start[t];
+    /* Counting-sort fill with start[t] as a cursor, then shift back: the usual
+     * transpose, which keeps pairs in increasing order. */
+    for (int64_t p = 0; p < m->n_pairs; p++)
+        for (int64_t k = m->pair_trans_start[p]; (!use || use[p]) && k < m->pair_trans_start[p + 1]; k++)
+            if (edge(m, k))
+                r->pair_of[r->start[m->succ_state[k]]++] = p;
+    for (int32_t t = m->n_states; t > 0; t--)
+        r->start[t] = r->start[t - 1];
+    r->start[0] = 0;
+    return 0;
+}
+
+void bc_reverse_free(bc_reverse *r)
+{
+    free(r->start);
+    free(r->pair_of);
+    r->start = NULL;
+    r->pair_of = NULL;
+}
