@@ -80,6 +80,12 @@ int bc__reader_init(bc__agent_reader *r, const bc_model *m, const char *label,
     r->label = label;
     r->json_top = want_policy ? "policy" : "q";
     r->missing = missing;
+    /* The table and the bookkeeping below: per pair a value and a line, per
+     * state a line and two flags (n_pairs, n_states < 2^63, so no overflow). */
+    uint64_t need = (uint64_t)m->n_pairs * (sizeof(double) + sizeof(int32_t)) +
+                    (uint64_t)m->n_states * (sizeof(int32_t) + 2);
+    if (bc_diag_memory_refused(d, label, need, "a table for this model"))
+        return -1;
     r->state_line = alloc_array(m->n_states, sizeof *r->state_line);
     r->pair_line = alloc_array(m->n_pairs, sizeof *r->pair_line);
     r->state_bad = alloc_array(m->n_states, sizeof *r->state_bad);

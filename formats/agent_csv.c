@@ -37,6 +37,9 @@ typedef struct {
     size_t n_cells, cap_cells;
 } csv_reader;
 
+/* Longest cell read as a number (see cell_number). */
+#define NUM_CELL_MAX 256
+
 static int is_space(char ch)
 {
     return ch == ' ' || ch == '\t';
@@ -109,7 +112,8 @@ static int next_row(csv_reader *c)
         const char *nl = memchr(line, '\n', c->len - c->pos);
         size_t n = nl ? (size_t)(nl - line) : c->len - c->pos;
         c->pos += n + (nl != NULL);
-        c->line++;
+        if (c->line < INT32_MAX)
+            c->line++; /* past 2^31 - 1 lines, positions name the last line number */
         if (n > 0 && line[n - 1] == '\r')
             n--;
         size_t k = 0;
@@ -148,12 +152,18 @@ static int cell_number(csv_reader *c, size_t k, const char *what, double *v)
         *v = NAN;
         return 0;
     }
-    /* The cell is trimmed and what follows it (space, comma, quote, line end
-     * or the buffer's final NUL) cannot continue a number, so strtod can read
-     * in place; strtod would skip leading white space, which a quoted cell may hold. */
-    char *end;
-    *v = strtod(cell->text, &end);
-    if (end == cell->text + cell->len && !isspace((unsigned char)cell->text[0]))
+    /* strtod needs a NUL-terminated copy: the cell may be the last bytes of a
+     * buffer that has no NUL after it (bc_read_qtable_mem).  17 significant
+     * digits already pin a double, so NUM_CELL_MAX bytes leave ample room.
+     * strtod would skip leading white space, which a quoted cell may hold. */
+    if (cell->len > NUM_CELL_MAX)
+        return bc__fail(c->r, cell_at(c, k), "%s '%.40s...' is %zu bytes long; a number in a "
+                        "CSV cell is at most %d bytes", what, cell->text, cell->len, NUM_CELL_MAX);
+    char text[NUM_CELL_MAX + 1], *end;
+    memcpy(text, cell->text, cell->len);
+    text[cell->len] = 0;
+    *v = strtod(text, &end);
+    if (end == text + cell->len && !isspace((unsigned char)text[0]))
         return 0;
     return bc__fail(c->r, cell_at(c, k), "%s '%.*s%s' is not a number", what,
                     (int)(cell->len > 40 ? 40 : cell->len), cell->text,
@@ -199,6 +209,17 @@ static const char *header_text(const csv_reader *c, char *buf, size_t cap)
     return buf;
 }
 
+/* A row of the wrong width: its state, if it names one, is marked spoiled, so
+ * that the whole-state checks do not also report the state as missing. */
+static void row_spoiled(csv_reader *c)
+{
+    int32_t s = bc_names_find(c->r->m->state_names, c->cells[0].text, c->cells[0].len);
+    if (s >= 0) {
+        bc__state_touch(c->r, s, cell_at(c, 0));
+        bc__state_bad(c->r, s);
+    }
+}
+
 /* Reads every row after the header with row_fn; 0, or -1 when the diagnostics filled up. */
 static int read_rows(csv_reader *c, size_t width, void (*row_fn)(csv_reader *, void *), void *arg)
 {
@@ -208,6 +229,8 @@ static int read_rows(csv_reader *c, size_t width, void (*row_fn)(csv_reader *, v
             return -1;
         if (rc > 0 && row_width(c, width) == 0)
             row_fn(c, arg);
+        else if (rc > 0)
+            row_spoiled(c);
     }
     return bc__full(c->r) ? -1 : 0;
 }

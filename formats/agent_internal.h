@@ -61,7 +61,8 @@ typedef struct {
 /* ---- agent_alloc.c: the context ------------------------------------------ */
 
 /* Prepares r for a Q-table (want_policy 0) or a policy (1): q all NAN, every
- * present flag 0.  Returns 0, or -1 after reporting running out of memory. */
+ * present flag 0.  Returns 0, or -1 after reporting running out of memory
+ * (or that the tables would exceed d->max_memory). */
 int bc__reader_init(bc__agent_reader *r, const bc_model *m, const char *label,
                     bc_missing_mode missing, int want_policy, bc_diag *d);
 /* Frees the bookkeeping and, unless it was handed out, the table. */

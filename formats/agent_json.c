@@ -161,6 +161,20 @@ static int read_document(bc__agent_reader *r, const char *buf, size_t len,
         buf += 3;
         len -= 3;
     }
+    size_t deep = bc__json_depth_excess(buf, len);
+    if (deep < len) {
+        char msg[96];
+        snprintf(msg, sizeof msg, "JSON nested more than %d levels deep (a Q-table or policy "
+                 "needs 3)", BC__JSON_MAX_DEPTH);
+        syntax_fail(r, buf, len, deep, msg);
+        return -1;
+    }
+    size_t nul = bc__json_nul_in_string(buf, len);
+    if (nul < len) {
+        syntax_fail(r, buf, len, nul, "a JSON string holds the NUL character \\u0000; no state "
+                    "or action name may contain one");
+        return -1;
+    }
     cJSON *root = parse_document(r, buf, len);
     if (!root)
         return -1;

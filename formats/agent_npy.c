@@ -14,11 +14,17 @@
  * order.  The data must fill the file exactly: a header whose shape does not
  * match the bytes that follow is refused rather than trusted.  Positions in
  * messages are the 1-based row and column of the array.
+ *
+ * Grids: a Q-table of a grid model may keep the grid's axes, shape
+ * (n1, ..., nk, actions), its rows being the cells in C order; a grid's
+ * terminal state `stop` (always last) may be left out of Q-tables and of
+ * flat policies alike.
  */
 #include "agent_internal.h"
 
 #include <math.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #define NPY_MAX_DIM 32 /* NumPy's own limit (NPY_MAXDIMS) in its 1.x releases */
@@ -280,11 +286,29 @@ static uint64_t element_bits(const npy_array *a, size_t index)
     return x;
 }
 
-/* Element [i][j] of a 2-D array (j = 0 for 1-D) as a double. */
+/* Element [i][j] as a double, the array seen as a matrix: row i runs over
+ * the axes before the last in C order (all axes for a policy, j = 0), column
+ * j over the last axis.  For 1-D and 2-D arrays that is the array itself. */
 static double element(const npy_array *a, int64_t i, int64_t j)
 {
-    int64_t rows = a->shape[0], cols = a->ndim == 2 ? a->shape[1] : 1;
-    size_t index = (size_t)(a->fortran ? j * rows + i : i * cols + j);
+    int n_row_axes = a->ndim >= 2 ? a->ndim - 1 : a->ndim;
+    size_t index;
+    if (!a->fortran) {
+        index = (size_t)(i * (a->ndim >= 2 ? a->shape[a->ndim - 1] : 1) + j);
+    } else { /* first axis fastest: split i into its C-order digits */
+        int64_t digit[NPY_MAX_DIM], rest = i;
+        for (int k = n_row_axes - 1; k >= 0; k--) {
+            digit[k] = rest % a->shape[k];
+            rest /= a->shape[k];
+        }
+        size_t stride = 1;
+        index = 0;
+        for (int k = 0; k < n_row_axes; k++) {
+            index += (size_t)digit[k] * stride;
+            stride *= (size_t)a->shape[k];
+        }
+        index += (size_t)j * stride;
+    }
     uint64_t x = element_bits(a, index);
     if (a->kind == 'f' && a->itemsize == 4) {
         uint32_t u = (uint32_t)x;
@@ -324,14 +348,41 @@ static int check_shape(bc__agent_reader *r, const npy_array *a, const int64_t *w
                     shape_text(a, f, sizeof f));
 }
 
+/* A grid's array: axes (n1, ..., nk[, actions]) whose rows (the product of
+ * the n's) cover the states in order, either all of them or all but the
+ * terminal states at the end (a grid model's `stop`, which needs no row).
+ * Returns the number of rows, or -1 when the shape is not of that kind. */
+static int64_t grid_rows(const bc_model *m, const npy_array *a, int with_actions)
+{
+    int n_row_axes = a->ndim - with_actions;
+    if (n_row_axes < 1 || (with_actions && a->shape[a->ndim - 1] != m->n_actions))
+        return -1;
+    int64_t rows = 1;
+    for (int k = 0; k < n_row_axes; k++) {
+        if (a->shape[k] < 1 || rows > INT32_MAX / a->shape[k])
+            return -1;
+        rows *= a->shape[k];
+    }
+    if (rows == m->n_states)
+        return rows;
+    for (int32_t s = (int32_t)(rows < m->n_states ? rows : m->n_states); s < m->n_states; s++)
+        if (!m->terminal[s])
+            return -1;
+    return rows < m->n_states ? rows : -1;
+}
+
 int bc__read_npy_qtable(bc__agent_reader *r, const unsigned char *buf, size_t len)
 {
     const bc_model *m = r->m;
     npy_array a;
     int64_t want[2] = {m->n_states, m->n_actions};
-    if (parse_npy(r, buf, len, &a) < 0 || check_shape(r, &a, want, 2, "states, actions") < 0)
+    if (parse_npy(r, buf, len, &a) < 0)
         return -1;
-    for (int32_t s = 0; s < m->n_states; s++) {
+    int64_t rows = grid_rows(m, &a, 1);
+    if (rows < 0 && check_shape(r, &a, want, 2, "states, actions") < 0)
+        return -1;
+    rows = rows < 0 ? m->n_states : rows;
+    for (int32_t s = 0; s < rows; s++) {
         if (bc__full(r))
             return -1;
         int any = 0;
@@ -359,9 +410,11 @@ int bc__read_npy_policy(bc__agent_reader *r, const unsigned char *buf, size_t le
     if (a.kind == 'f')
         return bc__fail(r, (bc__at){r->label, 0, 0}, "a policy array holds integer action "
                         "indices; this one has the float dtype '%s'", a.descr);
-    if (check_shape(r, &a, want, 1, "one action index per state") < 0)
+    int64_t rows = a.ndim == 1 ? grid_rows(m, &a, 0) : -1; /* a policy of a grid comes flat */
+    if (rows < 0 && check_shape(r, &a, want, 1, "one action index per state") < 0)
         return -1;
-    for (int32_t s = 0; s < m->n_states; s++) {
+    rows = rows < 0 ? m->n_states : rows;
+    for (int32_t s = 0; s < rows; s++) {
         if (bc__full(r))
             return -1;
         double index = element(&a, s, 0); /* exact: action indices are far below 2^53 */
@@ -380,5 +433,25 @@ int bc__read_npy_policy(bc__agent_reader *r, const unsigned char *buf, size_t le
             bc__policy_action(r, s, (int32_t)index, at);
         }
     }
+    return 0;
+}
+
+int bc_npy_shape(const char *path, int64_t *shape, int *ndim, bc_diag *d)
+{
+    char *buf;
+    size_t len;
+    if (bc_read_file(path, &buf, &len, d) < 0)
+        return -1;
+    bc__agent_reader r;
+    memset(&r, 0, sizeof r);
+    r.d = d;
+    r.label = strcmp(path, "-") ? path : "<stdin>";
+    npy_array a;
+    int rc = parse_npy(&r, (const unsigned char *)buf, len, &a);
+    free(buf);
+    if (rc < 0)
+        return -1;
+    *ndim = a.ndim;
+    memcpy(shape, a.shape, (size_t)a.ndim * sizeof *shape);
     return 0;
 }

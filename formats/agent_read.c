@@ -374,59 +374,98 @@ static agent_format sniff(const char *buf, size_t len)
     return buf[i] == '{' ? AGENT_JSON : AGENT_CSV;
 }
 
-/* Reads path into r by the format its content shows.  0 when the whole file
- * was examined (errors may have been reported), -1 when reading stopped
- * (then the whole-state checks would only report what was never read). */
-static int read_agent_file(bc__agent_reader *r, const char *path, int want_policy)
+/* The first NUL byte of buf[0..len) as a 1-based line and column; 0 when there is none.
+ * CSV and JSON are text: a NUL would silently cut a name or a number short. */
+static int first_nul(const char *buf, size_t len, int32_t *line, int32_t *col)
 {
-    char *buf;
-    size_t len;
-    if (bc_read_file(path, &buf, &len, r->d) < 0)
-        return -1;
-    int rc = -1;
+    const char *nul = memchr(buf, 0, len);
+    if (!nul)
+        return 0;
+    *line = 1;
+    const char *start = buf;
+    for (const char *p = buf; p < nul; p++)
+        if (*p == '\n') {
+            *line += *line < INT32_MAX; /* positions saturate past 2^31 - 1 */
+            start = p + 1;
+        }
+    *col = nul - start < INT32_MAX ? (int32_t)(nul - start) + 1 : INT32_MAX;
+    return 1;
+}
+
+/* Reads buf[0..len) into r by the format its content shows.  0 when the
+ * whole input was examined (errors may have been reported), -1 when reading
+ * stopped (then the whole-state checks would only report what was never read). */
+static int read_agent_bytes(bc__agent_reader *r, const char *buf, size_t len, int want_policy)
+{
     const unsigned char *bytes = (const unsigned char *)buf;
-    switch (sniff(buf, len)) {
+    agent_format f = sniff(buf, len);
+    int32_t line, col;
+    if (f != AGENT_NPY && first_nul(buf, len, &line, &col))
+        return bc__fail(r, (bc__at){r->label, line, col}, "binary data (a NUL byte): a %s file "
+                        "in CSV or JSON is text", want_policy ? "policy" : "Q-table");
+    switch (f) {
     case AGENT_EMPTY:
-        bc__fail(r, (bc__at){r->label, 0, 0}, "the file is empty: expected a %s (CSV, NPY or "
-                 "JSON)", want_policy ? "policy" : "Q-table");
-        break;
+        return bc__fail(r, (bc__at){r->label, 0, 0}, "the file is empty: expected a %s (CSV, "
+                        "NPY or JSON)", want_policy ? "policy" : "Q-table");
     case AGENT_NPY:
-        rc = want_policy ? bc__read_npy_policy(r, bytes, len) : bc__read_npy_qtable(r, bytes, len);
-        break;
+        return want_policy ? bc__read_npy_policy(r, bytes, len) : bc__read_npy_qtable(r, bytes, len);
     case AGENT_JSON:
-        rc = want_policy ? bc__read_json_policy(r, buf, len) : bc__read_json_qtable(r, buf, len);
-        break;
+        return want_policy ? bc__read_json_policy(r, buf, len) : bc__read_json_qtable(r, buf, len);
     case AGENT_CSV:
-        rc = want_policy ? bc__read_csv_policy(r, buf, len) : bc__read_csv_qtable(r, buf, len);
         break;
     }
-    free(buf);
+    return want_policy ? bc__read_csv_policy(r, buf, len) : bc__read_csv_qtable(r, buf, len);
+}
+
+/* Prepares r and reads path (buf NULL) or buf[0..len) into it; 0 when the
+ * whole-state checks may follow.  r is left ready for bc__reader_free in every case. */
+static int read_agent(bc__agent_reader *r, const char *path, const char *buf, size_t len,
+                      const bc_model *m, bc_missing_mode missing, int want_policy, bc_diag *d)
+{
+    const char *label = buf ? path : strcmp(path, "-") == 0 ? "<stdin>" : path;
+    if (bc__reader_init(r, m, label ? label : "<input>", missing, want_policy, d) < 0)
+        return -1;
+    if (buf)
+        return read_agent_bytes(r, buf, len, want_policy);
+    char *file;
+    if (bc_read_file(path, &file, &len, d) < 0)
+        return -1;
+    int rc = read_agent_bytes(r, file, len, want_policy);
+    free(file);
     return rc;
 }
 
-/* Prepares r and reads path into it; 0 when the whole-state checks may follow.
- * r is left ready for bc__reader_free in every case. */
-static int read_agent(bc__agent_reader *r, const char *path, const bc_model *m,
-                      bc_missing_mode missing, int want_policy, bc_diag *d)
+/* A Q-table (want_policy 0) or a policy (1) read from path (buf NULL) or
+ * from buf[0..len); NULL after reporting. */
+static void *read_table(const char *path, const char *buf, size_t len, const bc_model *m,
+                        bc_missing_mode missing, int want_policy, bc_diag *d)
 {
-    const char *label = strcmp(path, "-") == 0 ? "<stdin>" : path;
-    if (bc__reader_init(r, m, label, missing, want_policy, d) < 0)
-        return -1;
-    return read_agent_file(r, path, want_policy);
+    bc__agent_reader r;
+    void *t = NULL;
+    if (read_agent(&r, path, buf, len, m, missing, want_policy, d) == 0)
+        t = want_policy ? (void *)bc__finish_policy(&r) : (void *)bc__finish_qtable(&r);
+    bc__reader_free(&r);
+    return t;
 }
 
 bc_qtable *bc_read_qtable(const char *path, const bc_model *m, bc_missing_mode missing, bc_diag *d)
 {
-    bc__agent_reader r;
-    bc_qtable *q = read_agent(&r, path, m, missing, 0, d) == 0 ? bc__finish_qtable(&r) : NULL;
-    bc__reader_free(&r);
-    return q;
+    return read_table(path, NULL, 0, m, missing, 0, d);
 }
 
 bc_policy *bc_read_policy(const char *path, const bc_model *m, bc_missing_mode missing, bc_diag *d)
 {
-    bc__agent_reader r;
-    bc_policy *p = read_agent(&r, path, m, missing, 1, d) == 0 ? bc__finish_policy(&r) : NULL;
-    bc__reader_free(&r);
-    return p;
+    return read_table(path, NULL, 0, m, missing, 1, d);
+}
+
+bc_qtable *bc_read_qtable_mem(const char *buf, size_t len, const char *label, const bc_model *m,
+                              bc_missing_mode missing, bc_diag *d)
+{
+    return read_table(label, buf ? buf : "", len, m, missing, 0, d);
+}
+
+bc_policy *bc_read_policy_mem(const char *buf, size_t len, const char *label, const bc_model *m,
+                              bc_missing_mode missing, bc_diag *d)
+{
+    return read_table(label, buf ? buf : "", len, m, missing, 1, d);
 }

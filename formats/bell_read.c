@@ -18,8 +18,20 @@ typedef struct {
     int32_t col;
 } token;
 
+/* Parsed numbers by their text: models repeat a few probabilities and
+ * rewards millions of times, and exact parsing (a gcd) costs far more than
+ * a lookup.  Direct-mapped; only texts of at most 16 bytes whose value has
+ * the small form (independent of the big-number table) are kept. */
+#define NUM_CACHE 16384
+typedef struct {
+    uint64_t k0, k1; /* the text, zero-padded */
+    uint32_t len;    /* 0: empty entry */
+    bc_num value;
+} num_entry;
+
 typedef struct {
     const char *file;
+    const char *end; /* end of the input buffer */
     bc_diag *diag;
     bc_builder *b;
     int32_t line;
@@ -28,6 +40,7 @@ typedef struct {
     size_t n_tok, cap_tok;
     int errors;
     int seen_content; /* a non-comment line was already read */
+    num_entry *num_cache; /* [NUM_CACHE], or NULL (out of memory: no cache) */
 } reader;
 
 static bc_pos pos_of(const reader *r, const token *t)
@@ -43,14 +56,30 @@ static int report(reader *r, const token *t, const char *fmt, const char *a, siz
     return -1;
 }
 
+/* Byte classes of names: 1 may start a name, 2 may continue one (a table,
+ * since names are checked byte by byte millions of times). */
+static const uint8_t name_class[256] = {
+    ['_'] = 3, ['.'] = 2, [':'] = 2, ['-'] = 2,
+    ['0'] = 2, ['1'] = 2, ['2'] = 2, ['3'] = 2, ['4'] = 2, ['5'] = 2, ['6'] = 2, ['7'] = 2,
+    ['8'] = 2, ['9'] = 2,
+    ['A'] = 3, ['B'] = 3, ['C'] = 3, ['D'] = 3, ['E'] = 3, ['F'] = 3, ['G'] = 3, ['H'] = 3,
+    ['I'] = 3, ['J'] = 3, ['K'] = 3, ['L'] = 3, ['M'] = 3, ['N'] = 3, ['O'] = 3, ['P'] = 3,
+    ['Q'] = 3, ['R'] = 3, ['S'] = 3, ['T'] = 3, ['U'] = 3, ['V'] = 3, ['W'] = 3, ['X'] = 3,
+    ['Y'] = 3, ['Z'] = 3,
+    ['a'] = 3, ['b'] = 3, ['c'] = 3, ['d'] = 3, ['e'] = 3, ['f'] = 3, ['g'] = 3, ['h'] = 3,
+    ['i'] = 3, ['j'] = 3, ['k'] = 3, ['l'] = 3, ['m'] = 3, ['n'] = 3, ['o'] = 3, ['p'] = 3,
+    ['q'] = 3, ['r'] = 3, ['s'] = 3, ['t'] = 3, ['u'] = 3, ['v'] = 3, ['w'] = 3, ['x'] = 3,
+    ['y'] = 3, ['z'] = 3,
+};
+
 static int is_name_start(char c)
 {
-    return (c >= 'A' && c <= 'Z') || (c >= 'a' && c <= 'z') || c == '_';
+    return name_class[(unsigned char)c] & 1;
 }
 
 static int is_name_char(char c)
 {
-    return is_name_start(c) || (c >= '0' && c <= '9') || c == '.' || c == ':' || c == '-';
+    return name_class[(unsigned char)c] & 2;
 }
 
 /* Checks that t is a name: [A-Za-z_][A-Za-z0-9_.:-]*, at most 255 bytes. */
@@ -75,12 +104,49 @@ static int expect_name(reader *r, const token *t, const char *what)
     return 0;
 }
 
+/* The cache entry of t's text (key in k), or NULL when it cannot be cached. */
+static num_entry *num_slot(const reader *r, const token *t, uint64_t k[2])
+{
+    if (!r->num_cache || t->len > 2 * sizeof *k)
+        return NULL;
+#if defined(__BYTE_ORDER__) && __BYTE_ORDER__ == __ORDER_LITTLE_ENDIAN__
+    if (t->s + 2 * sizeof *k <= r->end) {
+        /* Two whole words, masked to the token: no byte-wise copy (whose
+         * stores the loads would wait for). */
+        memcpy(k, t->s, 2 * sizeof *k);
+        if (t->len < 8) {
+            k[0] &= (1ULL << (8 * t->len)) - 1;
+            k[1] = 0;
+        } else if (t->len < 16) {
+            k[1] &= (1ULL << (8 * (t->len - 8))) - 1;
+        }
+    } else
+#endif
+    {
+        k[0] = k[1] = 0;
+        memcpy(k, t->s, t->len);
+    }
+    uint64_t h = (k[0] * 0x9E3779B97F4A7C15ULL) ^ (k[1] * 0xBF58476D1CE4E5B9ULL) ^ t->len;
+    return &r->num_cache[(h ^ (h >> 29)) % NUM_CACHE];
+}
+
 /* Parses t as an exact number into *out. */
 static int expect_number(reader *r, const token *t, const char *what, bc_num *out)
 {
     const char *why = NULL;
-    if (bc_num_parse(t->s, t->len, out, bc_builder_bigtab(r->b), &why) == 0)
+    uint64_t k[2];
+    num_entry *e = num_slot(r, t, k);
+    if (e) {
+        if (e->len == t->len && e->k0 == k[0] && e->k1 == k[1]) {
+            *out = e->value;
+            return 0;
+        }
+    }
+    if (bc_num_parse(t->s, t->len, out, bc_builder_bigtab(r->b), &why) == 0) {
+        if (e && out->den != 0)
+            e->k0 = k[0], e->k1 = k[1], e->len = (uint32_t)t->len, e->value = *out;
         return 0;
+    }
     char fmt[320];
     snprintf(fmt, sizeof fmt, "expected %s, found `%%.*s` (%s)", what, why);
     return report(r, t, fmt, t->s, t->len > 80 ? 80 : t->len);
@@ -98,16 +164,19 @@ static int is_arrow(const token *t)
 }
 
 /* Splits one line [p, end) into tokens, stopping at '#'. */
+/* 1 for the bytes that separate tokens, 2 for the comment mark. */
+static const uint8_t sep_class[256] = {[' '] = 1, ['\t'] = 1, ['\r'] = 1, ['#'] = 2};
+
 static int tokenize(reader *r, const char *p, const char *end)
 {
     r->n_tok = 0;
     while (p < end) {
-        while (p < end && (*p == ' ' || *p == '\t' || *p == '\r'))
+        while (p < end && sep_class[(unsigned char)*p] == 1)
             p++;
         if (p >= end || *p == '#')
             break;
         const char *start = p;
-        while (p < end && *p != ' ' && *p != '\t' && *p != '\r' && *p != '#')
+        while (p < end && !sep_class[(unsigned char)*p])
             p++;
         if (r->n_tok == r->cap_tok) {
             size_t cap = r->cap_tok ? 2 * r->cap_tok : 64;
@@ -199,9 +268,10 @@ static int transition_line(reader *r)
     /* Successor names are usually scattered over a large table: start all
      * their lookups before resolving any, so the cache misses overlap. */
     for (int stage = 0; stage < 2; stage++)
-        for (size_t k = 4; k < n; k++)
+        for (size_t k = 4; k < n; k++) {
             if (is_name_start(t[k].s[0]))
                 bc_builder_prefetch_state(r->b, t[k].s, t[k].len, stage);
+        }
     int rc = successors(r);
     /* After an error the line is dropped whole: checking its sum would only add noise. */
     if (rc < 0) {
@@ -292,6 +362,10 @@ static int name_line(reader *r, const char *end)
 
 static int is_directive(const token *t)
 {
+    /* Every keyword starts with one of these letters and has 4 to 9 bytes;
+     * most lines are transition lines, which this turns away at once. */
+    if (t->len < 4 || t->len > 9 || !strchr("bndohitsa", t->s[0]))
+        return 0;
     static const char *const words[] = {"bell", "name", "discount", "objective", "horizon",
                                         "initial", "terminal", "states", "actions"};
     for (size_t i = 0; i < sizeof words / sizeof words[0]; i++)
@@ -384,13 +458,16 @@ bc_model *bc_read_bell_text(const char *buf, size_t len, const char *file_label,
 {
     reader r = {0};
     r.file = file_label ? file_label : "<input>";
+    r.num_cache = calloc(NUM_CACHE, sizeof *r.num_cache);
     r.diag = d;
     r.b = bc_builder_new(r.file, d);
     if (!r.b) {
+        free(r.num_cache);
         bc_diag_add(d, BC_ERROR, r.file, 0, 0, "out of memory");
         return NULL;
     }
     const char *p = buf, *end = buf + len;
+    r.end = end;
     if (len >= 3 && (unsigned char)p[0] == 0xEF && (unsigned char)p[1] == 0xBB &&
         (unsigned char)p[2] == 0xBF)
         p += 3; /* UTF-8 byte-order mark */
@@ -405,6 +482,7 @@ bc_model *bc_read_bell_text(const char *buf, size_t len, const char *file_label,
         p = eol + 1;
     }
     free(r.tok);
+    free(r.num_cache);
     if (r.errors || stop) {
         bc_builder_free(r.b);
         return NULL;

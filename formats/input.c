@@ -9,15 +9,22 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
-/* Reads everything from fd into a growing buffer. */
-static int read_all(int fd, size_t hint, char **buf, size_t *len)
+/* Reads everything from fd into a growing buffer.  Returns 0, -1 (errno
+ * set), or -2 when the buffer would grow past max bytes (0 = no limit). */
+static int read_all(int fd, size_t hint, uint64_t max, char **buf, size_t *len)
 {
     size_t cap = hint + 1 > 65536 ? hint + 1 : 65536, n = 0;
+    if (max && cap + 1 > max)
+        cap = max > 1 ? (size_t)max - 1 : 1;
     char *p = malloc(cap + 1);
     if (!p)
         return -1;
     for (;;) {
         if (n == cap) {
+            if (max && 2 * (uint64_t)cap + 1 > max) {
+                free(p);
+                return -2;
+            }
             if (cap > SIZE_MAX / 2 - 1) {
                 free(p);
                 errno = ENOMEM;
@@ -65,15 +72,19 @@ int bc_read_file(const char *path, char **buf, size_t *len, bc_diag *d)
         return -1;
     }
     size_t hint = (fstat(fd, &st) == 0 && S_ISREG(st.st_mode)) ? (size_t)st.st_size : 0;
-    int rc = read_all(fd, hint, buf, len);
+    /* A regular file is refused before anything is allocated; a pipe when
+     * the buffer would outgrow the limit. */
+    int rc = bc_diag_memory_refused(d, label, (uint64_t)hint + 1, "holding the file") ? -3
+             : read_all(fd, hint, d->max_memory, buf, len);
     int err = errno;
     if (!is_stdin)
         close(fd);
-    if (rc < 0) {
+    if (rc == -2)
+        bc_diag_add(d, BC_ERROR, label, 0, 0, "the input is larger than the memory limit "
+                    "(--max-memory %llu bytes)", (unsigned long long)d->max_memory);
+    else if (rc == -1)
         bc_diag_add(d, BC_ERROR, label, 0, 0, "cannot read: %s", strerror(err));
-        return -1;
-    }
-    return 0;
+    return rc < 0 ? -1 : 0;
 }
 
 bc_model *bc_read_model(const char *path, bc_diag *d)
@@ -92,7 +103,7 @@ bc_model *bc_read_model(const char *path, bc_diag *d)
     bc_model *m = NULL;
     if (i == len)
         bc_diag_add(d, BC_ERROR, label, 0, 0, "the file is empty: expected a model");
-    else if (buf[i] == '{')
+    else if (buf[i] == '{' || buf[i] == '[') /* '[' starts no .bell line: a JSON array, refused as such */
         m = bc_read_bell_json(buf, len, label, d);
     else
         m = bc_read_bell_text(buf, len, label, d);

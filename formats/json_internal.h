@@ -13,4 +13,16 @@ const char *bc__json_found(const cJSON *v, char *buf, size_t cap);
 /* Line and column (1-based; columns count UTF-8 characters) of byte offset off in buf[0..len). */
 void bc__json_line_col(const char *buf, size_t len, size_t off, int32_t *line, int32_t *col);
 
+/* How deep a JSON document may nest: cJSON recurses once per level, and no
+ * document this project reads needs more than 5 levels. */
+#define BC__JSON_MAX_DEPTH 64
+
+/* Offset of the first bracket that opens level BC__JSON_MAX_DEPTH + 1 in buf[0..len), or len. */
+size_t bc__json_depth_excess(const char *buf, size_t len);
+
+/* Offset in buf[0..len) of the first NUL character inside a JSON string
+ * (a zero byte or the escape \u0000), or len when there is none.  cJSON
+ * keeps strings NUL-terminated, so such a name would be cut short unseen. */
+size_t bc__json_nul_in_string(const char *buf, size_t len);
+
 #endif

@@ -27,7 +27,7 @@
 
 /* The deepest legal document nests 5 levels (root, transitions, one
  * transition, next, one successor); 64 leaves room and keeps recursion small. */
-#define JSON_MAX_DEPTH 64
+#define JSON_MAX_DEPTH BC__JSON_MAX_DEPTH
 #define JSON_PATH_MAX 512
 
 typedef struct {
@@ -562,8 +562,7 @@ static int read_transitions(json_ctx *c, const cJSON *v)
 
 /* ---- syntax ------------------------------------------------------------- */
 
-/* Offset of the first bracket that opens level JSON_MAX_DEPTH + 1, or len. */
-static size_t depth_excess(const char *buf, size_t len)
+size_t bc__json_depth_excess(const char *buf, size_t len)
 {
     int depth = 0, in_string = 0;
     for (size_t i = 0; i < len; i++) {
@@ -591,12 +590,31 @@ void bc__json_line_col(const char *buf, size_t len, size_t off, int32_t *line, i
     *col = 1;
     for (size_t i = 0; i < off && i < len; i++) {
         if (buf[i] == '\n') {
-            ++*line;
+            *line += *line < INT32_MAX; /* positions saturate past 2^31 - 1 */
             *col = 1;
         } else if (((unsigned char)buf[i] & 0xC0) != 0x80) {
-            ++*col; /* columns count characters, not UTF-8 continuation bytes */
+            *col += *col < INT32_MAX; /* columns count characters, not UTF-8 continuation bytes */
         }
     }
+}
+
+size_t bc__json_nul_in_string(const char *buf, size_t len)
+{
+    int in_string = 0;
+    for (size_t i = 0; i < len; i++) {
+        if (!in_string) {
+            in_string = buf[i] == '"';
+        } else if (buf[i] == 0) {
+            return i;
+        } else if (buf[i] == '"') {
+            in_string = 0;
+        } else if (buf[i] == '\\') {
+            if (len - i >= 6 && memcmp(buf + i + 1, "u0000", 5) == 0)
+                return i;
+            i++; /* the escaped byte cannot end the string */
+        }
+    }
+    return len;
 }
 
 /* Reports a problem at byte offset off of buf as label:line:col. */
@@ -733,7 +751,13 @@ static cJSON *parse_document(json_ctx *c, const char *buf, size_t len)
 {
     /* Parse only up to the excess: cJSON then never recurses deeper than
      * JSON_MAX_DEPTH, and a syntax error before it is the real problem. */
-    size_t deep = depth_excess(buf, len), off;
+    size_t deep = bc__json_depth_excess(buf, len), off;
+    size_t nul = bc__json_nul_in_string(buf, deep);
+    if (nul < deep) {
+        fail_at(c, buf, len, nul, "a JSON string holds a NUL character (\\u0000 or a zero "
+                "byte); no name, number or label may contain one");
+        return NULL;
+    }
     cJSON *root = parse_prefix(buf, deep, &off);
     if (root) { /* complete: only blanks may follow */
         while (off < len && (buf[off] == ' ' || buf[off] == '\t' || buf[off] == '\n' ||

@@ -25,6 +25,10 @@ int bc_compare(const bc_model *m, const bc_solve_opts *o, bc_comparison *c)
         methods[n++] = BC_METHOD_PI;
         methods[n++] = BC_METHOD_LP;
     }
+    bc_prove_opts po;
+    bc_prove_opts_default(&po);
+    if (m->n_trans <= po.exact_max_trans) /* small enough for the exact reference too */
+        methods[n++] = BC_METHOD_EXACT;
     c->agree = 1;
     for (int i = 0; i < n; i++) {
         bc_solution_init(&c->sol[i]);
@@ -34,6 +38,17 @@ int bc_compare(const bc_model *m, const bc_solve_opts *o, bc_comparison *c)
             return -1;
         if (st != BC_SOLVE_OK)
             c->agree = 0;
+        /* Each method's values get their own interval proof (never replaced). */
+        c->proof[i] = (bc_proof){BC_PROOF_NONE, -1};
+        if (st == BC_SOLVE_OK && methods[i] == BC_METHOD_EXACT) {
+            c->proof[i] = (bc_proof){BC_PROOF_EXACT, c->sol[i].bound};
+        } else if (st == BC_SOLVE_OK) {
+            bc_proof_result pr;
+            po.mode = BC_PROVE_INTERVAL;
+            if (bc_prove_solution(m, &c->sol[i], &po, &pr) == 0)
+                c->proof[i] = pr.value;
+            bc_proof_result_free(&pr);
+        }
     }
     double scale = 1;
     for (int i = 0; i < n; i++)

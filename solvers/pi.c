@@ -314,13 +314,14 @@ static double max_steps_bound(const bc_model *m, pi_work *w, const bc_sv_scales 
     return rn < 0.5 ? nmax / (1.0 - rn) : -1;
 }
 
-/* The starting policy: greedy on immediate reward (discount < 1), or one that
- * terminates with probability 1 (discount 1).  0, or a failure status with
- * the message set. */
-static bc_solve_status start_policy(const bc_model *m, double sgn, bc_solution *sol)
+/* The starting policy: greedy on v0 (discount < 1; v0 NULL: on immediate
+ * reward), or one that terminates with probability 1 (discount 1).  0, or a
+ * failure status with the message set. */
+static bc_solve_status start_policy(const bc_model *m, double sgn, const double *v0,
+                                    bc_solution *sol)
 {
     if (m->discount < 1.0) {
-        bc_sv_greedy(m, sgn, sol->values, sol->policy); /* values are 0 here */
+        bc_sv_greedy(m, sgn, v0 ? v0 : sol->values, sol->policy); /* sol->values are 0 here */
         return BC_SOLVE_OK;
     }
     int32_t bad = -1;
@@ -405,7 +406,7 @@ double bc_sv_pi_lu_flops(const bc_model *m)
     if (pi_work_alloc(m, NULL, 0, &w) == 0) {
         if (w.n == 0) {
             flops = 0;
-        } else if (start_policy(m, bc_sv_sign(m), &start) == BC_SOLVE_OK) {
+        } else if (start_policy(m, bc_sv_sign(m), NULL, &start) == BC_SOLVE_OK) {
             void *symbolic = NULL;
             build_system(m, &w, bc_sv_sign(m), start.policy);
             if (umfpack_dl_symbolic(w.n, w.n, w.Ap, w.Ai, w.Ax, &symbolic, w.control, w.info) ==
@@ -420,7 +421,13 @@ double bc_sv_pi_lu_flops(const bc_model *m)
     return flops;
 }
 
-bc_solve_status bc_solve_pi(const bc_model *m, const bc_solve_opts *o, bc_solution *sol)
+/* Improvement steps allowed below the usual threshold to reach tol. */
+#define PI_POLISH 3
+
+/* Policy iteration from the greedy policy of v0 (NULL: the usual start);
+ * warm = value-iteration sweeps spent on v0, for the message. */
+static bc_solve_status pi_run(const bc_model *m, const bc_solve_opts *o, const double *v0,
+                              int64_t warm, bc_solution *sol)
 {
     const double t0 = bc_sv_now(), sgn = bc_sv_sign(m);
     bc_solve_status st = bc_sv_begin(m, BC_METHOD_PI, sol);
@@ -437,9 +444,9 @@ bc_solve_status bc_solve_pi(const bc_model *m, const bc_solve_opts *o, bc_soluti
     }
     bc_sv_scales sc;
     bc_sv_scales_of(m, &sc);
-    st = start_policy(m, sgn, sol);
+    st = start_policy(m, sgn, m->discount < 1.0 ? v0 : NULL, sol);
     double res = 0.0, gain = 0.0;
-    int64_t changed = 1;
+    int64_t changed = 1, polish = 0;
     while (st == BC_SOLVE_OK && changed > 0 && w.n > 0) {
         st = evaluate(m, &w, sgn, sol->policy, sol->values, sol->iterations + 1, sol->message,
                       sizeof sol->message);
@@ -450,10 +457,23 @@ bc_solve_status bc_solve_pi(const bc_model *m, const bc_solve_opts *o, bc_soluti
         double vmax = 0.0;
         for (int32_t s = 0; s < m->n_states; s++)
             vmax = fmax(vmax, fabs(sol->values[s]));
-        double eps = 4.0 * (res + bc_sv_backup_error(m, &sc, vmax)) +
-                     1e-12 * (sc.reward_max + vmax);
+        /* The relative term keeps rounding noise from making the method
+         * cycle.  Under g < 1 a gain left below it may still leave a bound
+         * gain/(1-g) above tol: then at most PI_POLISH more steps take
+         * every gain above tol (1-g)/4 (a bounded number, so noise cannot
+         * make the method cycle for ever). */
+        double floor_ = 4.0 * (res + bc_sv_backup_error(m, &sc, vmax));
+        double eps = floor_ + (polish ? fmin(1e-12 * (sc.reward_max + vmax),
+                                             0.25 * o->tol * (1.0 - m->discount))
+                                      : 1e-12 * (sc.reward_max + vmax));
         memcpy(next, sol->policy, (size_t)m->n_states * sizeof *next);
         changed = improve(m, sgn, sol->values, eps, next, &gain);
+        if (changed == 0 && m->discount < 1.0 && polish < PI_POLISH &&
+            (gain + floor_) / (1.0 - m->discount) > o->tol) {
+            polish++;
+            eps = floor_ + fmin(1e-12 * (sc.reward_max + vmax), 0.25 * o->tol * (1.0 - m->discount));
+            changed = improve(m, sgn, sol->values, eps, next, &gain);
+        }
         if (changed > 0 && (sol->iterations >= max_steps || bc_sv_out_of_time(o, t0)))
             st = BC_SOLVE_NOT_CONVERGED; /* keep the evaluated policy with its values */
         else if (changed > 0)
@@ -464,15 +484,30 @@ bc_solve_status bc_solve_pi(const bc_model *m, const bc_solve_opts *o, bc_soluti
                               : final_bound(m, &w, &sc, sol->policy, sol->values, res, gain, scratch);
         if (st == BC_SOLVE_NOT_CONVERGED && m->discount >= 1.0)
             sol->bound = -1;
+        char from[96] = "";
+        if (warm > 0 && m->discount < 1.0)
+            snprintf(from, sizeof from, " from the policy of %lld value-iteration sweeps",
+                     (long long)warm);
         snprintf(sol->message, sizeof sol->message,
-                 "policy iteration: %lld evaluations%s, residual %.3g, gain left %.3g; %s %.3g",
-                 (long long)sol->iterations,
+                 "policy iteration%s: %lld evaluations%s, residual %.3g, gain left %.3g; %s %.3g",
+                 from, (long long)sol->iterations,
                  st == BC_SOLVE_NOT_CONVERGED ? " (stopped by the limit)" : "", res, gain,
                  m->discount < 1.0 ? "proven |V - V*| <=" : "proven |V - V^pi| <=", sol->bound);
     }
     pi_work_free(&w);
     free(next), free(scratch);
     return bc_sv_finish(m, sol, st, t0);
+}
+
+bc_solve_status bc_solve_pi(const bc_model *m, const bc_solve_opts *o, bc_solution *sol)
+{
+    return pi_run(m, o, NULL, 0, sol);
+}
+
+bc_solve_status bc_sv_solve_pi_warm(const bc_model *m, const bc_solve_opts *o, const double *v0,
+                                    int64_t skipped_sweeps, bc_solution *sol)
+{
+    return pi_run(m, o, v0, skipped_sweeps, sol);
 }
 
 /* ------------------------------------------------------------------------ */

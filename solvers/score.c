@@ -34,6 +34,7 @@ void bc_score_opts_default(bc_score_opts *o)
     o->q_discount = NAN;
     o->ties_worst = 0;
     bc_solve_opts_default(&o->solve);
+    bc_prove_opts_default(&o->prove);
 }
 
 void bc_score_free(bc_score *s)
@@ -47,6 +48,14 @@ void bc_score_free(bc_score *s)
     s->agent_prob = s->values = s->state_regret = NULL;
     s->traps = s->by_regret = NULL;
     s->n_traps = 0;
+    bc_proof_result_free(&s->optimum_proof);
+    for (int32_t i = 0; s->exact_values && i < s->n_exact_values; i++)
+        mpq_clear(s->exact_values[i]);
+    free(s->exact_values);
+    s->exact_values = NULL;
+    free(s->exact_regret_initial);
+    free(s->exact_value_initial);
+    s->exact_regret_initial = s->exact_value_initial = NULL;
 }
 
 /* Everything "not computed": arrays NULL, statistics NAN. */
@@ -59,6 +68,10 @@ static void score_init(bc_score *out)
     out->residual = out->q_error = out->regret_bound = NAN;
     out->agreement_states = out->agreement_weighted = out->reach_probability = NAN;
     out->worst_state = -1;
+    const bc_proof none = {BC_PROOF_NONE, -1};
+    out->values_proof = out->value_initial_proof = out->optimal_initial_proof = none;
+    out->regret_initial_proof = out->regret_max_state_proof = none;
+    out->residual_proof = out->q_error_proof = none;
 }
 
 /* The exact rational image of a discount given as a double (every double is
@@ -395,6 +408,21 @@ static int ranked_cmp(const void *a, const void *b)
     return (x->state > y->state) - (x->state < y->state);
 }
 
+/* by_regret from state_regret; 0, or -1 when out of memory. */
+static int sort_by_regret(const bc_model *mg, bc_score *out)
+{
+    ranked *order = malloc((size_t)(mg->n_states ? mg->n_states : 1) * sizeof *order);
+    if (!order)
+        return -1;
+    for (int32_t s = 0; s < mg->n_states; s++)
+        order[s] = (ranked){out->state_regret[s], s};
+    qsort(order, (size_t)mg->n_states, sizeof *order, ranked_cmp);
+    for (int32_t i = 0; i < mg->n_states; i++)
+        out->by_regret[i] = order[i].state;
+    free(order);
+    return 0;
+}
+
 /* value_initial, optimal_initial, the regrets, worst state, by_regret.  Returns
  * the number of states with a regret below what the bounds allow, or -1
  * when out of memory. */
@@ -414,21 +442,13 @@ static int32_t regrets(const bc_model *mg, const uint8_t *present, bc_score *out
     out->regret_initial = regret_of(sgn, out->optimal_initial, out->value_initial, allow, &odd);
     out->regret_max_state = NAN;
     out->worst_state = -1;
-    ranked *order = malloc((size_t)(mg->n_states ? mg->n_states : 1) * sizeof *order);
-    if (!order)
-        return -1;
     for (int32_t s = 0; s < mg->n_states; s++) {
         double r = present[s] ? regret_of(sgn, vstar[s], out->values[s], allow, &odd) : NAN;
         out->state_regret[s] = r;
-        order[s] = (ranked){r, s};
         if (!isnan(r) && !mg->terminal[s] && (out->worst_state < 0 || r > out->regret_max_state))
             out->regret_max_state = r, out->worst_state = s;
     }
-    qsort(order, (size_t)mg->n_states, sizeof *order, ranked_cmp);
-    for (int32_t i = 0; i < mg->n_states; i++)
-        out->by_regret[i] = order[i].state;
-    free(order);
-    return odd;
+    return sort_by_regret(mg, out) < 0 ? -1 : odd;
 }
 
 /* Q*(p) = r(p) + g sum_t P(t|p) V*(t), model's sign. */
@@ -501,7 +521,7 @@ static void agreement(const bc_model *mg, const uint8_t *present, const uint8_t 
 
 /* best_a Q(t, a) in the objective's sense; 0 for terminal states, NAN for
  * states the table does not cover. */
-static double q_best(const bc_model *mg, const bc_qtable *q, int32_t t)
+double bc_sc_q_best(const bc_model *mg, const bc_qtable *q, int32_t t)
 {
     if (mg->terminal[t])
         return 0.0;
@@ -554,7 +574,7 @@ static int q_statistics(const bc_model *mg, const bc_qtable *q, double g_q, int3
         return -1;
     }
     for (int32_t t = 0; t < mg->n_states; t++)
-        v_q[t] = q_best(mg, q, t);
+        v_q[t] = bc_sc_q_best(mg, q, t);
     for (int64_t p = 0; p < mg->n_pairs; p++) {
         int32_t s = mg->pair_state[p];
         if (!q->present[s])
@@ -623,7 +643,7 @@ static int find_traps(const bc_model *mg, const double *prob, uint8_t *trap, bc_
 /* Evaluation, reach probability, regrets, agreement and the Q-table's
  * statistics, once the agent's policy is set.  0 or -1. */
 static int compare(const bc_model *mg, const bc_qtable *q, const bc_policy *pol, double g_q,
-                   const bc_solve_opts *so, int32_t n_uncovered, bc_score *out, int32_t *odd,
+                   const bc_score_opts *o, int32_t n_uncovered, bc_score *out, int32_t *odd,
                    int64_t *eval_sweeps)
 {
     const size_t n = (size_t)(mg->n_states ? mg->n_states : 1);
@@ -638,9 +658,13 @@ static int compare(const bc_model *mg, const bc_qtable *q, const bc_policy *pol,
     if (find_traps(mg, out->agent_prob, trap, out) < 0)
         goto done;
     bc_sc_eval ev = {out->values, visits, -1, 0, 0};
-    if (bc_sc_evaluate(mg, out->agent_prob, trap, so, &ev, out->message, sizeof out->message) < 0)
+    if (bc_sc_evaluate(mg, out->agent_prob, trap, &o->solve, &ev, out->message,
+                       sizeof out->message) < 0)
         goto done;
     out->eval_bound = ev.bound;
+    out->n_exact_values = mg->n_states;
+    if (bc_sc_prove_agent(mg, trap, &o->prove, out) < 0)
+        goto done;
     *eval_sweeps = ev.sweeps;
     out->reach_probability = mg->discount < 1.0 ? NAN : 1.0;
     if (out->n_traps > 0 &&
@@ -654,6 +678,8 @@ static int compare(const bc_model *mg, const bc_qtable *q, const bc_policy *pol,
     }
     agreement(mg, present, trap, visits, out);
     if (q && q_statistics(mg, q, g_q, n_uncovered, out) < 0)
+        goto done;
+    if (bc_sc_prove_figures(mg, q, g_q, trap, out) < 0 || sort_by_regret(mg, out) < 0)
         goto done;
     rc = 0;
 done:
@@ -708,9 +734,10 @@ int bc_score_compute(const bc_model *m, const bc_qtable *q, const bc_policy *p,
     out->discount = g;
     int32_t n_uncovered = 0, odd = 0;
     int64_t sweeps = 0;
-    if (solve_optimum(&mg, o, out) < 0 || alloc_arrays(&mg, out) < 0 ||
+    if (solve_optimum(&mg, o, out) < 0 || bc_sc_prove_optimum(&mg, &o->prove, out) < 0 ||
+        alloc_arrays(&mg, out) < 0 ||
         agent_policy(&mg, q, p, o, out, &n_uncovered) < 0 ||
-        compare(&mg, q, p, g_q, &o->solve, n_uncovered, out, &odd, &sweeps) < 0) {
+        compare(&mg, q, p, g_q, o, n_uncovered, out, &odd, &sweeps) < 0) {
         char keep[sizeof out->message];
         memcpy(keep, out->message, sizeof keep);
         bc_score_free(out);

@@ -64,4 +64,26 @@ int bc_sc_evaluate(const bc_model *m, const double *prob, const uint8_t *trap,
  * skipped (so an infinite v off the support does no harm). */
 double bc_sc_mixed_backup(const bc_model *m, const double *prob, const double *v, int32_t s);
 
+/* The table's best value in state t (objective's sense): 0 at terminal
+ * states, NAN where the table does not cover t (score.c). */
+double bc_sc_q_best(const bc_model *m, const bc_qtable *q, int32_t t);
+
+/* --- Proofs of the figures (score_proof.c) ------------------------------ */
+
+/* Proves the optimum just solved (bc_prove_solution; exact may replace its
+ * values and policy) and sets optimal_initial_proof.  0 or -1 (message set). */
+int bc_sc_prove_optimum(const bc_model *m, const bc_prove_opts *po, bc_score *out);
+/* Proves the agent's values (out->values, policy out->agent_prob, traps
+ * left out): exact evaluation when the optimum was proven exact (values are
+ * then replaced by the doubles nearest the exact ones), else an interval
+ * pass at discount < 1.  Call before the regrets are computed.  0 or -1. */
+int bc_sc_prove_agent(const bc_model *m, const uint8_t *trap, const bc_prove_opts *po,
+                      bc_score *out);
+/* After the regrets and the Q-table statistics: exact regrets (when both
+ * sides are exact: state_regret, regret_initial and regret_max_state are
+ * replaced by the doubles nearest them) or their interval bounds; the
+ * residual and max |Q - Q*| enclosed by outward rounding.  q may be NULL. */
+int bc_sc_prove_figures(const bc_model *m, const bc_qtable *q, double g_q, const uint8_t *trap,
+                        bc_score *out);
+
 #endif /* BC_SCORE_INTERNAL_H */

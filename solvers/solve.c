@@ -21,7 +21,7 @@ static const struct {
     const char *name;
 } method_names[] = {
     {BC_METHOD_AUTO, "auto"}, {BC_METHOD_VI, "vi"},       {BC_METHOD_PI, "pi"},
-    {BC_METHOD_LP, "lp"},     {BC_METHOD_BACKWARD, "backward"},
+    {BC_METHOD_LP, "lp"},     {BC_METHOD_BACKWARD, "backward"}, {BC_METHOD_EXACT, "exact"},
 };
 
 const char *bc_method_name(bc_method m)
@@ -99,16 +99,44 @@ bc_method bc_solve_auto_method(const bc_model *m)
     /* Only policy iteration proves a bound at discount 1. */
     if (m->discount >= 1.0)
         return BC_METHOD_PI;
-    /* Both certify their answer for discount < 1.  Policy iteration takes
-     * few steps however close the discount is to 1; value iteration needs
-     * about log(tol)/log(g) sweeps but no factorisation, so it wins on large
-     * models with a modest discount, and on any model whose LU fills in.
-     * First rule (issue 6's benchmarks will tune it): policy iteration up to
-     * 200,000 states or above discount 0.99, unless its estimated cost
-     * exceeds value iteration's. */
-    if (m->n_states <= 200000 || m->discount > 0.99)
+    /* Small models: whichever is estimated cheaper; a factorisation of at
+     * most BC_SV_SMALL_MODEL states is cheap to price and to do. */
+    if (m->n_states <= BC_SV_SMALL_MODEL)
         return pi_not_dearer(m) ? BC_METHOD_PI : BC_METHOD_VI;
+    /* Larger ones start with value iteration, whose Jacobi sweeps with
+     * MacQueen-Porteus bounds converge at the rate the chain mixes, however
+     * close g is to 1; bc_solve hands over to policy iteration, warm-started
+     * from the values reached, when those bounds shrink too slowly (a
+     * slow-mixing model, such as a large grid).  Pricing a factorisation up
+     * front is no option: UMFPACK's symbolic analysis alone of a random
+     * 200,000-state model took 26 s on the development machine. */
     return BC_METHOD_VI;
+}
+
+/* Auto for discount < 1 beyond small models: value iteration, handing over
+ * to policy iteration warm-started from its values when it converges
+ * slowly.  The time limit
+ * covers both; sol->method and the message say which answered. */
+static bc_solve_status solve_adaptive(const bc_model *m, const bc_solve_opts *o, bc_solution *sol)
+{
+    const double t0 = bc_sv_now();
+    int slow = 0;
+    bc_solve_status st = bc_sv_vi_or_handover(m, o, sol, &slow);
+    if (!slow)
+        return st;
+    double *v0 = sol->values;
+    int64_t sweeps = sol->iterations;
+    sol->values = NULL;
+    bc_solution_free(sol);
+    bc_solve_opts rest = *o;
+    if (o->max_seconds > 0) {
+        rest.max_seconds = o->max_seconds - (bc_sv_now() - t0);
+        rest.max_seconds = rest.max_seconds > 1e-3 ? rest.max_seconds : 1e-3;
+    }
+    st = bc_sv_solve_pi_warm(m, &rest, v0, sweeps, sol);
+    free(v0);
+    sol->seconds = bc_sv_now() - t0;
+    return st;
 }
 
 /* Solvers treat sol as output only: it is zeroed on entry (so an
@@ -122,13 +150,17 @@ bc_solve_status bc_solve(const bc_model *m, bc_method method, const bc_solve_opt
         bc_solve_opts_default(&defaults);
         o = &defaults;
     }
-    if (method == BC_METHOD_AUTO)
+    if (method == BC_METHOD_AUTO) {
         method = bc_solve_auto_method(m);
+        if (method == BC_METHOD_VI && m->discount < 1.0 && m->n_states > BC_SV_SMALL_MODEL)
+            return solve_adaptive(m, o, sol);
+    }
     switch (method) {
     case BC_METHOD_VI: return bc_solve_vi(m, o, sol);
     case BC_METHOD_PI: return bc_solve_pi(m, o, sol);
     case BC_METHOD_LP: return bc_solve_lp(m, o, sol);
     case BC_METHOD_BACKWARD: return bc_solve_backward(m, o, sol);
+    case BC_METHOD_EXACT: return bc_solve_exact(m, o, sol);
     case BC_METHOD_AUTO: break;
     }
     bc_solution_init(sol);

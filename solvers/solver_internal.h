@@ -144,6 +144,24 @@ double bc_sv_eval_flops(const bc_model *m, bc_sv_eval *w, const double *prob);
  * 0, or -1 if the solve failed or gave a non-finite x. */
 int bc_sv_eval_solve(const bc_model *m, bc_sv_eval *w, int transpose, const double *b, double *x);
 
+/* Value iteration (discount < 1) that gives up, with *slow = 1, status
+ * NOT_CONVERGED and sol->values holding its last midpoint in the maximising
+ * convention (not yet in the model's sign), once its half-widths predict
+ * more than BC_SV_HANDOVER_SWEEPS further sweeps and its greedy policy has
+ * stopped changing (or BC_SV_WARM_SWEEPS sweeps are spent): a warm start
+ * for policy iteration.  Otherwise it is bc_solve_vi. */
+bc_solve_status bc_sv_vi_or_handover(const bc_model *m, const bc_solve_opts *o, bc_solution *sol,
+                                     int *slow);
+#define BC_SV_HANDOVER_SWEEPS 300
+#define BC_SV_WARM_SWEEPS 1000
+/* Models up to this many states: auto prices policy iteration's factorisation. */
+#define BC_SV_SMALL_MODEL 100
+/* Policy iteration started from the greedy policy of v0 (maximising
+ * convention, 0 at terminal states; discount < 1), else bc_solve_pi.
+ * skipped_sweeps: value-iteration sweeps already spent, for the message. */
+bc_solve_status bc_sv_solve_pi_warm(const bc_model *m, const bc_solve_opts *o, const double *v0,
+                                    int64_t skipped_sweeps, bc_solution *sol);
+
 /* Default limits when o->max_iter is 0. */
 #define BC_SV_VI_MAX_SWEEPS 1000000
 #define BC_SV_PI_MAX_STEPS 10000

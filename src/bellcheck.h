@@ -85,12 +85,15 @@ typedef struct {
 } bc_diag_item;
 
 /* A list of messages collected by readers and analyses.  At most max_errors
- * errors are kept (default 20); later ones only count in n_dropped. */
+ * errors are kept (default 20); later ones only count in n_dropped.
+ * max_memory travels with it because every reader and the builder get a
+ * bc_diag: before a large allocation they ask bc_diag_memory_refused. */
 typedef struct {
     bc_diag_item *items;
     int n, cap;
     int n_errors, n_warnings, n_dropped;
     int max_errors;
+    uint64_t max_memory; /* bytes one reading may hold (--max-memory); 0 = no limit (the default) */
 } bc_diag;
 
 void bc_diag_init(bc_diag *d);                 /* empty list, max_errors 20 */
@@ -100,6 +103,8 @@ int bc_diag_add(bc_diag *d, bc_severity sev, const char *file, int32_t line, int
                 const char *fmt, ...) __attribute__((format(printf, 6, 7)));
 int bc_diag_full(const bc_diag *d);            /* 1 when max_errors errors are held */
 void bc_diag_print(const bc_diag *d, FILE *f); /* "file:line:col: error: message" lines */
+/* 0 when holding `bytes` for `what` fits d->max_memory; else 1 after reporting the refusal against file. */
+int bc_diag_memory_refused(bc_diag *d, const char *file, uint64_t bytes, const char *what);
 
 /* ------------------------------------------------------------------------ */
 /* Name tables                                                              */
@@ -288,9 +293,27 @@ void bc_out_abort(bc_out *o);                             /* close and delete th
 /* Solvers (solvers/)                                                       */
 /* ------------------------------------------------------------------------ */
 
-typedef enum { BC_METHOD_AUTO = 0, BC_METHOD_VI, BC_METHOD_PI, BC_METHOD_LP, BC_METHOD_BACKWARD } bc_method;
+/* What stands behind a printed number. */
+typedef enum {
+    BC_PROOF_NONE = 0,     /* an estimate: nothing is proven */
+    BC_PROOF_INTERVAL = 1, /* a rigorous enclosure (outward-rounded arithmetic) */
+    BC_PROOF_EXACT = 2     /* exact rational arithmetic */
+} bc_proof_kind;
 
-const char *bc_method_name(bc_method m);            /* "vi", "pi", "lp", "backward", "auto" */
+const char *bc_proof_kind_name(bc_proof_kind k); /* "none", "interval", "exact" */
+
+/* A proof attached to one number x: the true value lies in [x - bound, x + bound].
+ * exact: bound is the distance from x (a double) to the exact rational, rounded up
+ * (0 when x is exact); none: bound = -1. */
+typedef struct {
+    bc_proof_kind kind;
+    double bound;
+} bc_proof;
+
+typedef enum { BC_METHOD_AUTO = 0, BC_METHOD_VI, BC_METHOD_PI, BC_METHOD_LP, BC_METHOD_BACKWARD,
+               BC_METHOD_EXACT /* a floating-point solve made exact by bc_prove_solution */ } bc_method;
+
+const char *bc_method_name(bc_method m);            /* "vi", "pi", "lp", "backward", "exact", "auto" */
 int bc_method_parse(const char *s, bc_method *out); /* 0, or -1 for an unknown name */
 
 typedef struct {
@@ -332,6 +355,9 @@ bc_solve_status bc_solve_vi(const bc_model *m, const bc_solve_opts *o, bc_soluti
 bc_solve_status bc_solve_pi(const bc_model *m, const bc_solve_opts *o, bc_solution *sol);
 bc_solve_status bc_solve_lp(const bc_model *m, const bc_solve_opts *o, bc_solution *sol);
 bc_solve_status bc_solve_backward(const bc_model *m, const bc_solve_opts *o, bc_solution *sol);
+/* The automatic method, then exact policy iteration from its answer: values are the
+ * doubles nearest the exact optimum (bc_prove_solution keeps the rationals). */
+bc_solve_status bc_solve_exact(const bc_model *m, const bc_solve_opts *o, bc_solution *sol);
 /* Picks the method (auto: the fastest that certifies its answer for m) and solves. */
 bc_solve_status bc_solve(const bc_model *m, bc_method method, const bc_solve_opts *o, bc_solution *sol);
 /* The method bc_solve would use for m under BC_METHOD_AUTO. */
@@ -345,6 +371,7 @@ typedef struct {
     bc_solution sol[BC_COMPARE_MAX];
     double max_disagreement;          /* max over method pairs and states of |V_i(s) - V_j(s)| */
     double allowed;                   /* what their bounds allow for that pair */
+    bc_proof proof[BC_COMPARE_MAX];   /* interval proof of each method's values (kind none at discount 1) */
     int32_t worst_state;              /* where the largest excess (or disagreement) occurs; -1 if none */
     int worst_i, worst_j;             /* the two methods behind it */
     int agree;                        /* 1 when every pair agrees within its allowance */
@@ -356,6 +383,143 @@ typedef struct {
 /* Solves m with every method; 0, or -1 if out of memory.  A failed method leaves agree = 0. */
 int bc_compare(const bc_model *m, const bc_solve_opts *o, bc_comparison *c);
 void bc_comparison_free(bc_comparison *c); /* frees every solution */
+
+/* ------------------------------------------------------------------------ */
+/* Exact optima and proofs (solvers/exact*.c, interval.c, prove.c)          */
+/* ------------------------------------------------------------------------ */
+
+/* The exact optimum of a model: values as rationals in the model's sign. */
+typedef struct {
+    int32_t n_states;
+    mpq_t *values;          /* [n_states] V* (stage 0 with a horizon); 0 at terminal states */
+    int64_t *policy;        /* [n_states] an optimal pair (stage 0 with a horizon); -1 for terminal states */
+    int64_t *stage_policy;  /* [horizon * n_states] with a horizon, else NULL */
+    mpq_t value_initial;    /* sum_s initial(s) V*(s), exactly */
+    int32_t steps;          /* exact evaluations (policy iteration) or stages (horizon) */
+    int32_t n_changed;      /* states whose pair differs from the starting policy */
+    int64_t fill;           /* largest number of entries of an elimination factor */
+    double seconds;
+    char message[256];
+} bc_exact;
+
+/* The exact linear solver: sparse elimination in a fill-reducing order (cheap
+ * when the factors stay sparse), dense p-adic lifting (FLINT; when they fill
+ * in), or auto: sparse while the fill stays small, else dense. */
+typedef enum { BC_EXACT_LU_AUTO = 0, BC_EXACT_LU_SPARSE = 1, BC_EXACT_LU_DENSE = 2 } bc_exact_lu;
+
+typedef struct {
+    int64_t max_fill;       /* sparse: refuse past this many factor entries; 0 = default */
+    int32_t max_dense;      /* dense: refuse systems of more rows; 0 = default */
+    bc_exact_lu solver;     /* default auto */
+    double max_seconds;     /* 0 = no limit */
+} bc_exact_opts;
+
+void bc_exact_opts_default(bc_exact_opts *o); /* default fill budget (see docs/methods.md), no time limit */
+/* Exact policy iteration (or exact backward induction with a horizon) started
+ * from start[] (pairs per state, e.g. a floating-point optimum; NULL: a
+ * terminating policy is built).  BC_SOLVE_OK, NOT_CONVERGED when a budget
+ * stopped it, FAILED (message says why) or NOMEM.  out is always freeable. */
+bc_solve_status bc_exact_solve(const bc_model *m, const int64_t *start, const bc_exact_opts *o,
+                               bc_exact *out);
+void bc_exact_free(bc_exact *e); /* clears every value; NULL members allowed */
+/* Exact value of a (possibly stochastic) policy: prob[n_pairs] weights per
+ * pair as doubles (each an exact dyadic rational); states with skip[s] = 1
+ * (skip may be NULL) are left out and must not be reached.  values[] must be
+ * initialised; model sign.  0, 1 when a budget stopped it, -1 on failure
+ * (why[] says). */
+int bc_exact_policy_values(const bc_model *m, const double *prob, const uint8_t *skip,
+                           const bc_exact_opts *o, mpq_t *values, char *why, size_t cap);
+
+/* How a floating-point answer is proven. */
+typedef enum {
+    BC_PROVE_AUTO = 0,     /* exact when the model is small enough, else interval */
+    BC_PROVE_EXACT = 1,    /* exact only (fails when its budget is exceeded) */
+    BC_PROVE_INTERVAL = 2, /* interval only */
+    BC_PROVE_OFF = 3       /* no proof: every number is labelled "none" */
+} bc_prove_mode;
+
+typedef struct {
+    bc_prove_mode mode;
+    int64_t exact_max_trans; /* auto: exact up to this many transitions (default in docs/methods.md) */
+    bc_exact_opts exact;
+} bc_prove_opts;
+
+void bc_prove_opts_default(bc_prove_opts *o); /* auto, the measured threshold */
+
+/* The proof attached to a solution. */
+typedef struct {
+    bc_proof value;            /* for every values[s]: |values[s] - V*(s)| <= value.bound */
+    bc_proof initial;          /* for value_initial */
+    double *lower, *upper;     /* [n_states] a proven enclosure of V* (model sign) */
+    bc_exact exact;            /* the exact optimum when value.kind is exact */
+    int has_exact;
+    int policy_optimal;        /* 1: the solution's policy is proven optimal in every state */
+    int32_t n_proven_optimal;  /* non-terminal states where its pair is proven optimal */
+    int32_t n_undecided;       /* non-terminal states whose action gap is within the error */
+    double policy_loss;        /* proven bound on max_s regret of the policy; 0 if optimal; -1 unknown */
+    int32_t n_corrected;       /* exact: states whose pair the exact check changed */
+    double seconds;
+    char message[256];
+} bc_proof_result;
+
+/* Proves sol (a floating-point solution of m): exact rational check when the
+ * mode and size allow (then sol's values become the doubles nearest the exact
+ * optimum, its policy an exactly optimal one, and sol->bound the rounding
+ * distance), otherwise outward-rounded intervals.  0, or -1 (out of memory or
+ * an exact-only proof that could not be had; message says why). */
+int bc_prove_solution(const bc_model *m, bc_solution *sol, const bc_prove_opts *o,
+                      bc_proof_result *out);
+void bc_proof_result_free(bc_proof_result *r); /* frees the arrays and the exact values */
+/* Upper bound on |nearest double of x - x| style distances: |d - x| rounded up. */
+double bc_mpq_distance_up(double d, const mpq_t x);
+
+/* ------------------------------------------------------------------------ */
+/* Certificates: optimality that re-checks without solving                  */
+/* ------------------------------------------------------------------------ */
+
+/* SHA-256 (hex) of m's normalised form, the text bc_write_bell_text writes; 0 or -1. */
+int bc_model_digest(const bc_model *m, char hex[65]);
+
+/* A self-contained claim about a model: this policy is optimal and these are
+ * its values.  exact: values are rationals and the claim is V = V* exactly;
+ * interval: values are doubles within `bound` of V*, and the policy is within
+ * `policy_loss` of optimal in every state. */
+typedef struct {
+    bc_proof_kind kind;      /* BC_PROOF_EXACT or BC_PROOF_INTERVAL */
+    char digest[65];         /* the model's bc_model_digest */
+    int32_t n_states;
+    int64_t *policy;         /* [n_states] pair; -1 at terminal states */
+    mpq_t *exact_values;     /* [n_states] exact kind, model sign; else NULL */
+    double *values;          /* [n_states] interval kind; else NULL */
+    double bound;            /* interval: claimed max_s |values[s] - V*(s)| */
+    double policy_loss;      /* interval: claimed max_s regret of the policy */
+} bc_certificate;
+
+/* Builds the certificate of a proven solution (pr from bc_prove_solution; its
+ * kind must be exact or interval).  0, or -1 (out of memory / nothing proven). */
+int bc_certificate_from_proof(const bc_model *m, const bc_solution *sol,
+                              const bc_proof_result *pr, bc_certificate *c);
+void bc_certificate_free(bc_certificate *c); /* frees the arrays; c can be reused */
+/* Writes c as JSON (schema in docs/certificates.md); 0 or -1 on a write error. */
+int bc_write_certificate(FILE *f, const bc_model *m, const bc_certificate *c);
+/* Reads a certificate for m from path ("-" = standard input).  0; -1 when it
+ * is malformed (errors in d); -2 when it belongs to another model (d says). */
+int bc_read_certificate(const char *path, const bc_model *m, bc_certificate *c, bc_diag *d);
+
+/* What bc_verify_certificate found. */
+typedef struct {
+    int holds;               /* 1: every condition checked */
+    int32_t first_bad_state; /* the first state where a condition fails; -1 */
+    double bound;            /* interval: the bound the check itself proves */
+    double policy_loss;      /* interval: the policy loss it proves */
+    int64_t pairs_checked;
+    double seconds;
+    char message[256];       /* what failed, or what was proven */
+} bc_verdict;
+
+/* Re-checks c against m in one exact (or outward-rounded) pass of the
+ * Bellman optimality conditions, without solving.  0, or -1 out of memory. */
+int bc_verify_certificate(const bc_model *m, const bc_certificate *c, bc_verdict *v);
 
 /* ------------------------------------------------------------------------ */
 /* Learned agents: Q-tables and policies (formats/agent_*.c)                */
@@ -387,6 +551,13 @@ bc_qtable *bc_read_qtable(const char *path, const bc_model *m, bc_missing_mode m
 /* Reads a policy for m: CSV `state,action` or `state,action,prob`, NPY integer
  * array of action indices (shape (states,)), or JSON {"policy": {state: action}}. NULL on error. */
 bc_policy *bc_read_policy(const char *path, const bc_model *m, bc_missing_mode missing, bc_diag *d);
+/* The same two readers on bytes in memory, buf[0..len) (no final NUL needed); label names them in messages. */
+bc_qtable *bc_read_qtable_mem(const char *buf, size_t len, const char *label, const bc_model *m,
+                              bc_missing_mode missing, bc_diag *d);
+bc_policy *bc_read_policy_mem(const char *buf, size_t len, const char *label, const bc_model *m,
+                              bc_missing_mode missing, bc_diag *d);
+/* The shape of an NPY file's array into shape[0..*ndim) (at most 32 axes); 0, or -1 after reporting. */
+int bc_npy_shape(const char *path, int64_t *shape, int *ndim, bc_diag *d);
 void bc_qtable_free(bc_qtable *q);  /* NULL is allowed */
 void bc_policy_free(bc_policy *p);  /* NULL is allowed */
 /* Allocates an empty Q-table / policy for m (every state present, values 0). NULL if out of memory. */
@@ -398,6 +569,7 @@ bc_policy *bc_policy_alloc(const bc_model *m);
 /* ------------------------------------------------------------------------ */
 
 typedef struct {
+    bc_prove_opts prove; /* how the optimum and the agent's values are proven */
     double discount;     /* discount to score under; NAN = the model's */
     double q_discount;   /* discount under which the Q-table's residual is measured; NAN = `discount` */
     int ties_worst;      /* 1: among tied greedy actions, evaluate the worst choice (exactly) */
@@ -434,6 +606,17 @@ typedef struct {
     double reach_probability;  /* discount 1: probability the agent reaches a terminal state from the initial distribution */
     int32_t n_wrong;           /* covered non-terminal states whose agent action is not optimal */
     int32_t *by_regret;        /* [n_states] state indices sorted by decreasing regret (for --top) */
+    /* Proofs (kind none when nothing is proven).  The bound of each is on
+     * |printed figure - true figure|. */
+    bc_proof_result optimum_proof;   /* V*, as bc_prove_solution gives it */
+    bc_proof values_proof;           /* the agent's values off the traps */
+    bc_proof value_initial_proof, optimal_initial_proof;
+    bc_proof regret_initial_proof, regret_max_state_proof;
+    bc_proof residual_proof, q_error_proof;
+    char *exact_regret_initial;      /* "p/q" when the regret is exact, else NULL */
+    char *exact_value_initial;       /* the agent's value at the initial distribution, exact, or NULL */
+    mpq_t *exact_values;             /* [n_exact_values] the agent's exact values (model sign), or NULL */
+    int32_t n_exact_values;
     char message[256];
 } bc_score;
 
@@ -496,10 +679,13 @@ int bc_report_check_json(FILE *f, const bc_model *m, const bc_findings *fd, cons
 /* 1 when the findings make the model unusable (an error), else 0. */
 int bc_findings_fatal(const bc_model *m, const bc_findings *fd);
 
-/* Text report of a solve; show_states = how many states of the policy to list. */
-int bc_report_solve_text(FILE *f, const bc_model *m, const bc_solution *sol, int32_t show_states);
+/* Text report of a solve with its proof (pr may be NULL: nothing proven);
+ * show_states = how many states of the policy to list. */
+int bc_report_solve_text(FILE *f, const bc_model *m, const bc_solution *sol,
+                         const bc_proof_result *pr, int32_t show_states);
 /* JSON report of a solve (schema in docs/json-reports.md). */
-int bc_report_solve_json(FILE *f, const bc_model *m, const bc_solution *sol);
+int bc_report_solve_json(FILE *f, const bc_model *m, const bc_solution *sol,
+                         const bc_proof_result *pr);
 /* Text and JSON reports of --compare. */
 int bc_report_compare_text(FILE *f, const bc_model *m, const bc_comparison *c);
 int bc_report_compare_json(FILE *f, const bc_model *m, const bc_comparison *c);
@@ -511,10 +697,137 @@ int bc_report_score_text(FILE *f, const bc_model *m, const bc_score *s, const bc
 int bc_report_score_json(FILE *f, const bc_model *m, const bc_score *s, const bc_gate *gates,
                          int n_gates, int32_t top);
 
+/* Reports of `certify` (what was written and claimed) and `verify` (the verdict). */
+int bc_report_certify_text(FILE *f, const bc_model *m, const bc_certificate *c,
+                           const bc_proof_result *pr, const char *cert_path);
+int bc_report_certify_json(FILE *f, const bc_model *m, const bc_certificate *c,
+                           const bc_proof_result *pr, const char *cert_path);
+int bc_report_verify_text(FILE *f, const bc_model *m, const bc_certificate *c, const bc_verdict *v);
+int bc_report_verify_json(FILE *f, const bc_model *m, const bc_certificate *c, const bc_verdict *v);
+
 /* CSV `state,value` of a solution (values in the model's own sign). */
 int bc_write_values_csv(FILE *f, const bc_model *m, const bc_solution *sol);
 /* CSV `state,action` of a solution's policy (terminal states omitted). */
 int bc_write_policy_csv(FILE *f, const bc_model *m, const bc_solution *sol);
+
+/* ------------------------------------------------------------------------ */
+/* Continuous tasks (.task files) and the grids laid over them              */
+/* (formats/task_read.c, formats/formula_parse.c, src/task.c,               */
+/*  src/formula_eval.c, src/grid*.c; format in docs/format-task.md)         */
+/* ------------------------------------------------------------------------ */
+
+#define BC_TASK_MAX_VARS 16 /* state variables of one task */
+#define BC_TASK_MAX_NOISE 8 /* noise variables of one task */
+
+/* A control task: continuous state variables with ranges, one action
+ * variable with a finite set of values, noise inputs, and the formulas of
+ * the dynamics, compiled once.  Read-only after reading: one task may be
+ * stepped by several threads at once. */
+typedef struct bc_task bc_task;
+
+/* Reads a task from buf[0..len); file_label names it in messages. NULL on error. */
+bc_task *bc_task_read_text(const char *buf, size_t len, const char *file_label, bc_diag *d);
+bc_task *bc_task_read_file(const char *path, bc_diag *d); /* "-" = standard input; NULL on error */
+void bc_task_free(bc_task *t);                            /* NULL is allowed */
+int bc_task_path(const char *path);                       /* 1 when path names a .task file (by its ending) */
+
+const char *bc_task_name(const bc_task *t);               /* the `name` line, or NULL */
+double bc_task_discount(const bc_task *t);                /* nearest double of the exact discount */
+bc_objective bc_task_objective(const bc_task *t);
+int64_t bc_task_limit(const bc_task *t);                  /* longest simulated episode (steps) */
+int32_t bc_task_n_vars(const bc_task *t);                 /* state variables, in `state` order */
+const char *bc_task_var_name(const bc_task *t, int32_t i);
+double bc_task_var_low(const bc_task *t, int32_t i);      /* range of variable i */
+double bc_task_var_high(const bc_task *t, int32_t i);
+int32_t bc_task_n_actions(const bc_task *t);
+const char *bc_task_action_name(const bc_task *t, int32_t a); /* the action's name in grid models */
+double bc_task_action_value(const bc_task *t, int32_t a);     /* the value formulas see */
+int32_t bc_task_n_noise(const bc_task *t);
+const char *bc_task_noise_name(const bc_task *t, int32_t k);
+/* Noise variable k at probability level u in (0, 1): the inverse of its distribution function. */
+double bc_task_noise_at(const bc_task *t, int32_t k, double u);
+/* An initial state from u[0..n_vars) in [0, 1): A + u (B - A) for `uniform A B`, the value for `= V`. */
+void bc_task_initial_at(const bc_task *t, const double *u, double *x);
+
+/* One step of the dynamics from x[0..n_vars) under action a with noise values
+ * noise[0..n_noise) (NULL when the task has none): writes next[0..n_vars)
+ * (each value clamped to its range), *reward (plus stop_reward when it stops)
+ * and *stop (1 when the stop formula holds of the next state).  Allocates
+ * nothing.  Returns 0, or -1 when some formula produced a NaN or an infinity
+ * (bc_task_step_error then says which and where). */
+int bc_task_step(const bc_task *t, const double *x, int32_t a, const double *noise, double *next,
+                 double *reward, int *stop);
+/* One line naming the formula that fails on these inputs, with the state, action and noise; returns buf. */
+const char *bc_task_step_error(const bc_task *t, const double *x, int32_t a, const double *noise,
+                               char *buf, size_t cap);
+
+/* How a grid turns a task into a finite model (docs/format-task.md, "Grids"). */
+typedef enum { BC_SCHEME_SAMPLE = 0, BC_SCHEME_CENTER, BC_SCHEME_INTERP } bc_scheme;
+
+const char *bc_scheme_name(bc_scheme s);            /* "sample", "center", "interp" */
+int bc_scheme_parse(const char *s, bc_scheme *out); /* 0, or -1 for an unknown name */
+
+typedef struct {
+    int32_t n_dims;                  /* counts given in cells (0 = no grid given) */
+    int32_t cells[BC_TASK_MAX_VARS]; /* cells per state variable */
+    bc_scheme scheme;                /* default sample */
+    int32_t samples;                 /* sample: points per cell, m^n_dims; 0 = default */
+    int32_t noise_samples;           /* strata per noise variable; 0 = default */
+} bc_grid_opts;
+
+void bc_grid_opts_default(bc_grid_opts *o); /* no cells, scheme sample, default counts */
+/* Parses "64x64" (one count per state variable) into o; 0, or -1 with *why set. */
+int bc_grid_parse_cells(const char *text, bc_grid_opts *o, const char **why);
+
+/* Equal cells over a task's ranges.  Cell (i_1, ..., i_k) has index
+ * sum_j i_j stride[j] (row-major: the last variable varies fastest).  In a
+ * grid model state c is cell c, named "c<i_1>_<i_2>...", and the terminal
+ * state `stop`, when some step stops, comes last. */
+typedef struct {
+    int32_t n_dims;
+    int32_t cells[BC_TASK_MAX_VARS];
+    int64_t stride[BC_TASK_MAX_VARS];
+    double low[BC_TASK_MAX_VARS];
+    double high[BC_TASK_MAX_VARS];
+    double width[BC_TASK_MAX_VARS]; /* (high - low) / cells */
+    int64_t n_cells;
+    int32_t samples_per_axis;       /* points per axis of one cell (sample scheme) */
+    int32_t noise_strata;           /* strata per noise variable */
+} bc_grid;
+
+/* Lays the grid of o over t; 0, or -1 after reporting (wrong number of counts, too many cells, bad --samples). */
+int bc_grid_init(bc_grid *g, const bc_task *t, const bc_grid_opts *o, bc_diag *d);
+int64_t bc_grid_cell(const bc_grid *g, const double *x);                  /* cell holding x (outside: the nearest) */
+void bc_grid_cell_center(const bc_grid *g, int64_t cell, double *x);      /* centre of a cell */
+size_t bc_grid_cell_name(const bc_grid *g, int64_t cell, char *buf, size_t cap); /* "c3_17"; full length */
+
+/* The finite model of t on the grid of o, by o's scheme.  NULL after reporting. */
+bc_model *bc_grid_model(const bc_task *t, const bc_grid_opts *o, bc_diag *d);
+
+/* What `check` says about a grid itself.  Arrays are owned by the struct. */
+typedef struct {
+    bc_grid_opts opts;
+    int32_t n_stuck;         /* cells every action keeps in place with probability 1 ... */
+    int32_t *stuck;          /* ... although the dynamics move their centre: made by the grid */
+    int32_t n_never_entered; /* cells that no other cell leads to and the initial distribution misses */
+    int32_t *never_entered;
+    int32_t n_idle_actions;  /* actions that keep every cell where it is */
+    int32_t *idle_actions;
+} bc_grid_findings;
+
+/* Computes the findings of m = bc_grid_model(t, o); 0, or -1 on a failed step or out of memory. */
+int bc_grid_analyse(const bc_task *t, const bc_grid_opts *o, const bc_model *m, bc_grid_findings *f);
+void bc_grid_findings_free(bc_grid_findings *f); /* frees the arrays */
+/* `check`'s reports with the grid findings added (gf NULL: the same as without). */
+int bc_report_check_grid_text(FILE *f, const bc_model *m, const bc_findings *fd,
+                              const bc_grid_findings *gf, const char *source);
+int bc_report_check_grid_json(FILE *f, const bc_model *m, const bc_findings *fd,
+                              const bc_grid_findings *gf, const char *source);
+/* Reports of `grid`: the grid, the model's size, where it was written (output NULL: nowhere). */
+int bc_report_grid_text(FILE *f, const bc_model *m, const bc_grid *g, bc_scheme scheme,
+                        const char *source, const char *output);
+int bc_report_grid_json(FILE *f, const bc_model *m, const bc_grid *g, bc_scheme scheme,
+                        const char *source, const char *output);
 
 #ifdef __cplusplus
 }

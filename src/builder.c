@@ -146,15 +146,22 @@ bc_bigtab *bc_builder_bigtab(bc_builder *b)
  * Readers check names with their own messages; this guards every other caller. */
 static int valid_name(const char *name, size_t len)
 {
-    if (len == 0 || len > BC_NAME_MAX)
-        return 0;
-    for (size_t i = 0; i < len; i++) {
-        unsigned char c = (unsigned char)name[i];
-        int alpha = (c >= 'A' && c <= 'Z') || (c >= 'a' && c <= 'z') || c == '_';
-        int other = (c >= '0' && c <= '9') || c == '.' || c == ':' || c == '-';
-        if (!(alpha || (i > 0 && other)))
-            return 0;
+    /* 1: may start a name (letters, _), 2: may continue it (also digits . : -). */
+    static uint8_t cls[256];
+    static int ready; /* filled once; the same values whichever thread fills it */
+    if (!ready) {
+        for (int c = 0; c < 256; c++) {
+            int alpha = (c >= 'A' && c <= 'Z') || (c >= 'a' && c <= 'z') || c == '_';
+            int other = (c >= '0' && c <= '9') || c == '.' || c == ':' || c == '-';
+            cls[c] = (uint8_t)(alpha ? 3 : other ? 2 : 0);
+        }
+        ready = 1;
     }
+    if (len == 0 || len > BC_NAME_MAX || !(cls[(unsigned char)name[0]] & 1))
+        return 0;
+    for (size_t i = 1; i < len; i++)
+        if (!(cls[(unsigned char)name[i]] & 2))
+            return 0;
     return 1;
 }
 
@@ -162,6 +169,10 @@ static int valid_name(const char *name, size_t len)
 static int32_t nameset_intern(bc_builder *b, bc_nameset *ns, const char *name, size_t len,
                               bc_pos at)
 {
+    /* A name already held was checked when it was added: most calls end here. */
+    int32_t known = bc_names_find(ns->names, name, len);
+    if (known >= 0)
+        return known;
     if (!valid_name(name, len)) {
         bc__builder_report(b, BC_ERROR, at,
                            "`%.*s` is not a valid name: names start with a letter or _, "

@@ -131,18 +131,32 @@ int bc_builder_initial_end(bc_builder *b, bc_pos at)
 
 /* ---- transition lines ---------------------------------------------------- */
 
+/* Reallocates *arr to new_cap elements of size sz without zeroing the new
+ * part: the raw arrays are written before they are read, and zeroing them
+ * would touch every page twice.  0 or -1. */
+static int grow_raw(void **arr, int64_t new_cap, size_t sz)
+{
+    if (new_cap < 0 || (uint64_t)new_cap > SIZE_MAX / sz)
+        return -1;
+    void *p = realloc(*arr, new_cap ? (size_t)new_cap * sz : 1);
+    if (!p)
+        return -1;
+    *arr = p;
+    return 0;
+}
+
 /* Makes room for one more raw pair. */
 static int reserve_pair(bc_builder *b)
 {
     if (b->n_pairs + 1 < b->cap_pairs)
         return 0;
     int64_t cap = b->cap_pairs ? 2 * b->cap_pairs : 4096;
-    if (bc__resize((void **)&b->p_state, b->cap_pairs, cap, sizeof *b->p_state) < 0 ||
-        bc__resize((void **)&b->p_action, b->cap_pairs, cap, sizeof *b->p_action) < 0 ||
-        bc__resize((void **)&b->p_line, b->cap_pairs, cap, sizeof *b->p_line) < 0 ||
-        bc__resize((void **)&b->p_col, b->cap_pairs, cap, sizeof *b->p_col) < 0 ||
-        bc__resize((void **)&b->p_reward, b->cap_pairs, cap, sizeof *b->p_reward) < 0 ||
-        bc__resize((void **)&b->p_trans_start, b->cap_pairs, cap, sizeof *b->p_trans_start) < 0)
+    if (grow_raw((void **)&b->p_state, cap, sizeof *b->p_state) < 0 ||
+        grow_raw((void **)&b->p_action, cap, sizeof *b->p_action) < 0 ||
+        grow_raw((void **)&b->p_line, cap, sizeof *b->p_line) < 0 ||
+        grow_raw((void **)&b->p_col, cap, sizeof *b->p_col) < 0 ||
+        grow_raw((void **)&b->p_reward, cap, sizeof *b->p_reward) < 0 ||
+        grow_raw((void **)&b->p_trans_start, cap, sizeof *b->p_trans_start) < 0)
         return -1;
     b->cap_pairs = cap;
     return 0;
@@ -179,10 +193,10 @@ static int reserve_trans(bc_builder *b)
     if (b->n_trans < b->cap_trans)
         return 0;
     int64_t cap = b->cap_trans ? 2 * b->cap_trans : 8192;
-    if (bc__resize((void **)&b->t_succ, b->cap_trans, cap, sizeof *b->t_succ) < 0 ||
-        bc__resize((void **)&b->t_prob, b->cap_trans, cap, sizeof *b->t_prob) < 0 ||
+    if (grow_raw((void **)&b->t_succ, cap, sizeof *b->t_succ) < 0 ||
+        grow_raw((void **)&b->t_prob, cap, sizeof *b->t_prob) < 0 ||
         (b->t_outcome &&
-         bc__resize((void **)&b->t_outcome, b->cap_trans, cap, sizeof *b->t_outcome) < 0))
+         grow_raw((void **)&b->t_outcome, cap, sizeof *b->t_outcome) < 0))
         return -1;
     b->cap_trans = cap;
     return 0;
@@ -251,11 +265,43 @@ void bc_builder_pair_cancel(bc_builder *b)
     b->n_trans = b->p_trans_start[b->n_pairs];
 }
 
+/* 1 when probs[0..n) are small-form, non-negative and sum to exactly 1,
+ * decided without reducing a fraction (no gcd): the sum is kept over one
+ * denominator D, every term's denominator dividing it or it dividing the
+ * term's (probabilities of one line usually share a denominator).  0 when
+ * that does not decide it: the exact path then does. */
+static int sums_to_one_fast(const bc_num *probs, int64_t n)
+{
+    __int128 num = 0;
+    int64_t den = 1; /* divisions stay in 64 bits */
+    const __int128 cap = (__int128)1 << 100;
+    for (int64_t k = 0; k < n; k++) {
+        bc_num p = probs[k];
+        if (p.den <= 0 || p.num < 0)
+            return 0;
+        if (p.den == den) {
+            num += p.num;
+        } else if (den % p.den == 0) {
+            num += (__int128)p.num * (den / p.den);
+        } else if (p.den % den == 0) {
+            num = num * (p.den / den) + p.num;
+            den = p.den;
+        } else {
+            return 0;
+        }
+        if (num > cap)
+            return 0;
+    }
+    return num == den;
+}
+
 int bc__check_distribution(bc_builder *b, bc_num *probs, int64_t n, bc_pos at, const char *what,
                            int *renormalised)
 {
     bc_num sum = bc_num_int(0);
     *renormalised = 0;
+    if (sums_to_one_fast(probs, n))
+        return 0;
     for (int64_t k = 0; k < n; k++) {
         if (bc_num_sign(probs[k], b->big) < 0)
             return -1; /* already reported where it was read */

@@ -5,6 +5,7 @@
 
 #include <errno.h>
 #include <getopt.h>
+#include <limits.h>
 #include <math.h>
 #include <stdarg.h>
 #include <stdlib.h>
@@ -18,8 +19,11 @@ typedef struct {
 
 static const command commands[] = {
     {"check", bc_cli_check, "read and validate a model; summary and findings"},
-    {"solve", bc_cli_solve, "solve a model (vi, pi, lp) with a proven bound; --compare runs all"},
+    {"solve", bc_cli_solve, "solve a model (vi, pi, lp, exact) and prove the answer; --compare runs all"},
     {"score", bc_cli_score, "grade a learned Q-table or policy against the proven optimum"},
+    {"certify", bc_cli_certify, "write a certificate of the optimum that re-checks without solving"},
+    {"verify", bc_cli_verify, "re-check a certificate against its model"},
+    {"grid", bc_cli_grid, "build the finite model of a continuous task on a grid of cells"},
 };
 
 static void usage(FILE *f)
@@ -74,6 +78,55 @@ int bc_cli_long(const char *cmd, const char *opt, const char *arg, long long lo,
     return 0;
 }
 
+/* "BYTES" for --max-memory: a positive integer, optionally followed by K, M,
+ * G or T (powers of 1024, also written KiB, MiB, ...).  0, or -1 after printing. */
+static int parse_bytes(const char *arg, unsigned long long *out)
+{
+    static const char units[] = "KMGT";
+    char *end;
+    errno = 0;
+    unsigned long long v = arg[0] >= '0' && arg[0] <= '9' ? strtoull(arg, &end, 10) : 0;
+    int shift = 0;
+    if (v && !errno && *end) {
+        const char *u = strchr(units, end[0] & ~0x20);
+        if (u && *u && (!end[1] || !strcmp(end + 1, "iB") || !strcmp(end + 1, "B"))) {
+            shift = 10 * (int)(u - units + 1);
+            end += strlen(end);
+        }
+    }
+    if (!v || errno || *end || v > (ULLONG_MAX >> shift)) {
+        bc_cli_usage_error("", "--max-memory expects a positive number of bytes, optionally "
+                           "with K, M, G or T (like 512M), got '%s'", arg);
+        return -1;
+    }
+    *out = v << shift;
+    return 0;
+}
+
+int bc_cli_model_usable(const bc_model *m, const char *path)
+{
+    bc_findings fd;
+    if (bc_analyse(m, &fd) < 0)
+        return -1;
+    int ok = !bc_findings_fatal(m, &fd);
+    if (!ok)
+        bc_cli_report_unusable(strcmp(path, "-") ? path : "<stdin>", m, &fd);
+    bc_findings_free(&fd);
+    return ok;
+}
+
+int bc_cli_prove_mode(const char *cmd, const char *arg, bc_prove_mode *out)
+{
+    static const char *const names[] = {"auto", "exact", "interval", "off"};
+    for (int i = 0; i < 4; i++)
+        if (!strcmp(arg, names[i])) {
+            *out = (bc_prove_mode)i;
+            return 0;
+        }
+    bc_cli_usage_error(cmd, "--proof expects auto, exact, interval or off, got '%s'", arg);
+    return -1;
+}
+
 int bc_cli_common_option(bc_cli_common *c, int id, const char *arg)
 {
     long long v;
@@ -94,8 +147,10 @@ int bc_cli_common_option(bc_cli_common *c, int id, const char *arg)
             return -1;
         c->seed = v;
         return 1;
+    case OPT_MAX_MEMORY:
+        return parse_bytes(arg, &c->max_memory) < 0 ? -1 : 1;
     default:
-        return 0;
+        return bc_cli_grid_option(c, id, arg);
     }
 }
 
@@ -122,6 +177,25 @@ void bc_cli_report_unusable(const char *source, const bc_model *m, const bc_find
     fputs(fd->n_no_exit > 8 ? ", ...\n" : "\n", stderr);
 }
 
+int bc_cli_write_file(const char *path, int (*write)(FILE *f, const void *ctx), const void *ctx)
+{
+    bc_diag d;
+    bc_diag_init(&d);
+    bc_out o;
+    int rc = -1;
+    if (bc_out_open(&o, path, &d) == 0) {
+        if (write(o.f, ctx) < 0) {
+            bc_diag_add(&d, BC_ERROR, path, 0, 0, "write error");
+            bc_out_abort(&o);
+        } else {
+            rc = bc_out_commit(&o, &d);
+        }
+    }
+    bc_diag_print(&d, stderr);
+    bc_diag_free(&d);
+    return rc;
+}
+
 int bc_cli_text_wanted(const bc_cli_common *c)
 {
     return !c->quiet && !(c->json_path && strcmp(c->json_path, "-") == 0);
@@ -129,8 +203,12 @@ int bc_cli_text_wanted(const bc_cli_common *c)
 
 bc_model *bc_cli_load_model(const char *path, const bc_cli_common *c)
 {
+    int task = bc_cli_is_task(path, c);
+    if (task)
+        return task > 0 ? bc_cli_load_task(path, c, NULL) : NULL;
     bc_diag d;
     bc_diag_init(&d);
+    d.max_memory = c->max_memory;
     bc_model *m = bc_read_model(path, &d);
     if (!m || !c->quiet)
         bc_diag_print(&d, stderr);

@@ -8,10 +8,13 @@
 
 static const char help[] =
     "usage: bellcheck check MODEL [options]\n"
+    "       bellcheck check TASK --cells N1xN2... [--scheme S] [options]\n"
     "Reads MODEL (.bell text or its JSON form; - = standard input), checks it and\n"
     "prints a summary and findings: probability sums (exact), dead ends, states\n"
     "unreachable from the initial distribution, and with discount 1 the states from\n"
-    "which no policy reaches a terminal state and zero-reward loops.\n"
+    "which no policy reaches a terminal state and zero-reward loops.  A TASK's grid\n"
+    "model is also checked for cells the grid alone holds in place, cells never\n"
+    "entered and actions that never change the cell.\n"
     "Exit 0 when the model is usable (warnings allowed), 2 when it is not.\n\n" BC_CLI_COMMON_HELP;
 
 int bc_cli_check(int argc, char **argv)
@@ -35,12 +38,20 @@ int bc_cli_check(int argc, char **argv)
     if (optind != argc - 1)
         return bc_cli_usage_error("check", "expected one MODEL argument (see --help)");
     const char *path = argv[optind];
-    bc_model *m = bc_cli_load_model(path, &c);
+    bc_task *task = NULL; /* a TASK's grid model also gets the grid's own findings */
+    int is_task = bc_cli_is_task(path, &c);
+    bc_model *m = is_task > 0 ? bc_cli_load_task(path, &c, &task) : is_task < 0 ? NULL
+                                                                               : bc_cli_load_model(path, &c);
     if (!m)
         return BC_EXIT_USAGE;
     bc_findings fd;
-    if (bc_analyse(m, &fd) < 0) {
+    bc_grid_findings gfd, *gf = task ? &gfd : NULL;
+    int failed = bc_analyse(m, &fd) < 0;
+    if (!failed && gf && bc_grid_analyse(task, &c.grid, m, gf) < 0)
+        failed = 1, bc_findings_free(&fd);
+    if (failed) {
         bc_model_free(m);
+        bc_task_free(task);
         fprintf(stderr, "bellcheck check: out of memory while analysing the model\n");
         return BC_EXIT_SOLVER;
     }
@@ -49,12 +60,12 @@ int bc_cli_check(int argc, char **argv)
     if (rc != BC_EXIT_OK)
         bc_cli_report_unusable(source, m, &fd);
     if (bc_cli_text_wanted(&c))
-        bc_report_check_text(stdout, m, &fd, source);
+        bc_report_check_grid_text(stdout, m, &fd, gf, source);
     if (c.json_path) {
         bc_diag d;
         bc_diag_init(&d);
         bc_out o;
-        if (bc_out_open(&o, c.json_path, &d) < 0 || bc_report_check_json(o.f, m, &fd, source) < 0 ||
+        if (bc_out_open(&o, c.json_path, &d) < 0 || bc_report_check_grid_json(o.f, m, &fd, gf, source) < 0 ||
             bc_out_commit(&o, &d) < 0) {
             if (o.f)
                 bc_out_abort(&o);
@@ -64,6 +75,9 @@ int bc_cli_check(int argc, char **argv)
         bc_diag_free(&d);
     }
     bc_findings_free(&fd);
+    if (gf)
+        bc_grid_findings_free(gf);
+    bc_task_free(task);
     bc_model_free(m);
     return rc;
 }

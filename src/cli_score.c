@@ -156,6 +156,7 @@ static int load_agent(const score_args *a, const bc_model *m, bc_qtable **q, bc_
 {
     bc_diag d;
     bc_diag_init(&d);
+    d.max_memory = a->c.max_memory;
     if (a->q_path)
         *q = bc_read_qtable(a->q_path, m, a->missing, &d);
     else
@@ -237,6 +238,8 @@ int bc_cli_score(int argc, char **argv)
     int rc = parse_args(argc, argv, &a);
     if (rc != 0)
         return rc < 0 ? BC_EXIT_OK : rc;
+    if (bc_cli_grid_from_agent(&a.c, a.path, a.q_path) < 0)
+        return BC_EXIT_USAGE;
     bc_model *m = bc_cli_load_model(a.path, &a.c);
     if (!m)
         return BC_EXIT_USAGE;

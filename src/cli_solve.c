@@ -11,10 +11,18 @@ static const char help[] =
     "Solves MODEL and prints the optimal value at the initial distribution, the bound\n"
     "that is proven on it, and the optimal policy.\n\n"
     "options:\n"
-    "  --method M        vi (Gauss-Seidel value iteration), pi (policy iteration),\n"
+    "  --method M        vi (value iteration), pi (policy iteration),\n"
     "                    lp (linear programming, GLPK), backward (backward induction,\n"
-    "                    for models with a horizon) or auto (default: the fastest\n"
-    "                    method that proves its bound for this model)\n"
+    "                    for models with a horizon), exact (the automatic method, then\n"
+    "                    policy iteration in exact rational arithmetic; the JSON report\n"
+    "                    holds exact_values) or auto (default: the fastest method that\n"
+    "                    proves its bound for this model)\n"
+    "  --proof P         how the answer is proven: auto (default: exact rational check on\n"
+    "                    small models, outward-rounded intervals on large ones), exact,\n"
+    "                    interval, or off (numbers are then labelled as estimates)\n"
+    "  --exact-solver S  linear algebra of the exact proof: auto (default), sparse\n"
+    "                    (elimination in a fill-reducing order) or dense (p-adic\n"
+    "                    lifting, FLINT)\n"
     "  --compare         solve with every method; exit 3 if they disagree beyond\n"
     "                    their bounds\n"
     "  --tol X           wanted bound on the error of every value (default 1e-9)\n"
@@ -22,16 +30,19 @@ static const char help[] =
     "  --max-seconds S   limit on the solve time\n"
     "  --show N          states listed in the text report (default 10)\n"
     "  --values-out FILE write state,value as CSV\n"
-    "  --policy-out FILE write state,action as CSV\n\n" BC_CLI_COMMON_HELP;
+    "  --policy-out FILE write state,action as CSV\n\n"
+    "A proof covers the model as written, not the physical system it describes.\n\n"
+    BC_CLI_COMMON_HELP;
 
 enum { OPT_METHOD = OPT_FIRST_COMMAND_OPTION, OPT_COMPARE, OPT_TOL, OPT_MAX_ITER, OPT_MAX_SECONDS,
-       OPT_SHOW, OPT_VALUES_OUT, OPT_POLICY_OUT };
+       OPT_SHOW, OPT_VALUES_OUT, OPT_POLICY_OUT, OPT_PROOF, OPT_EXACT_SOLVER };
 
 typedef struct {
     bc_cli_common c;
     bc_method method;
     int compare;
     bc_solve_opts o;
+    bc_prove_opts proof;
     long long show;
     const char *values_out, *policy_out, *path;
 } solve_args;
@@ -48,6 +59,8 @@ static int parse_args(int argc, char **argv, solve_args *a)
         {"show", required_argument, NULL, OPT_SHOW},
         {"values-out", required_argument, NULL, OPT_VALUES_OUT},
         {"policy-out", required_argument, NULL, OPT_POLICY_OUT},
+        {"proof", required_argument, NULL, OPT_PROOF},
+        {"exact-solver", required_argument, NULL, OPT_EXACT_SOLVER},
         {NULL, 0, NULL, 0}};
     long long v;
     int id;
@@ -62,7 +75,18 @@ static int parse_args(int argc, char **argv, solve_args *a)
         case OPT_HELP: fputs(help, stdout); return -1;
         case OPT_METHOD:
             if (bc_method_parse(optarg, &a->method) < 0)
-                return bc_cli_usage_error("solve", "--method expects vi, pi, lp, backward or auto, got '%s'", optarg);
+                return bc_cli_usage_error("solve", "--method expects vi, pi, lp, backward, exact or auto, got '%s'", optarg);
+            break;
+        case OPT_PROOF:
+            if (bc_cli_prove_mode("solve", optarg, &a->proof.mode) < 0)
+                return BC_EXIT_USAGE;
+            break;
+        case OPT_EXACT_SOLVER:
+            if (!strcmp(optarg, "auto") || !strcmp(optarg, "sparse") || !strcmp(optarg, "dense"))
+                a->proof.exact.solver = optarg[0] == 'a' ? BC_EXACT_LU_AUTO
+                                      : optarg[0] == 's' ? BC_EXACT_LU_SPARSE : BC_EXACT_LU_DENSE;
+            else
+                return bc_cli_usage_error("solve", "--exact-solver expects auto, sparse or dense, got '%s'", optarg);
             break;
         case OPT_COMPARE: a->compare = 1; break;
         case OPT_TOL:
@@ -109,10 +133,11 @@ typedef struct {
     bc_out out;
 } output;
 
-static int write_one(output *o, const bc_model *m, const bc_solution *sol, const bc_comparison *cmp)
+static int write_one(output *o, const bc_model *m, const bc_solution *sol,
+                     const bc_proof_result *pr, const bc_comparison *cmp)
 {
     switch (o->kind) {
-    case 'j': return cmp ? bc_report_compare_json(o->out.f, m, cmp) : bc_report_solve_json(o->out.f, m, sol);
+    case 'j': return cmp ? bc_report_compare_json(o->out.f, m, cmp) : bc_report_solve_json(o->out.f, m, sol, pr);
     case 'v': return bc_write_values_csv(o->out.f, m, sol);
     default: return bc_write_policy_csv(o->out.f, m, sol);
     }
@@ -120,7 +145,7 @@ static int write_one(output *o, const bc_model *m, const bc_solution *sol, const
 
 /* Writes every requested output, or none; 0, or -1 after printing why. */
 static int write_outputs(const solve_args *a, const bc_model *m, const bc_solution *sol,
-                         const bc_comparison *cmp)
+                         const bc_proof_result *pr, const bc_comparison *cmp)
 {
     output outs[3];
     int n = 0;
@@ -138,7 +163,7 @@ static int write_outputs(const solve_args *a, const bc_model *m, const bc_soluti
     if (!ok)
         k--; /* outs[k - 1] failed to open and holds nothing */
     for (int i = 0; i < k && ok; i++)
-        if (write_one(&outs[i], m, sol, cmp) < 0) {
+        if (write_one(&outs[i], m, sol, pr, cmp) < 0) {
             bc_diag_add(&d, BC_ERROR, outs[i].path, 0, 0, "write error");
             ok = 0;
         }
@@ -151,19 +176,6 @@ static int write_outputs(const solve_args *a, const bc_model *m, const bc_soluti
     bc_diag_print(&d, stderr);
     bc_diag_free(&d);
     return ok ? 0 : -1;
-}
-
-/* Refuses models that `check` calls unusable, before any solver runs. */
-static int usable(const bc_model *m, const char *source)
-{
-    bc_findings fd;
-    if (bc_analyse(m, &fd) < 0)
-        return -1;
-    int ok = !bc_findings_fatal(m, &fd);
-    if (!ok)
-        bc_cli_report_unusable(source, m, &fd);
-    bc_findings_free(&fd);
-    return ok;
 }
 
 static int run_compare(const solve_args *a, const bc_model *m)
@@ -182,7 +194,7 @@ static int run_compare(const solve_args *a, const bc_model *m)
     for (int i = 0; i < cmp.n && !best; i++)
         if (cmp.sol[i].status == BC_SOLVE_OK)
             best = &cmp.sol[i];
-    if (rc == BC_EXIT_OK && write_outputs(a, m, best, &cmp) < 0)
+    if (rc == BC_EXIT_OK && write_outputs(a, m, best, NULL, &cmp) < 0)
         rc = BC_EXIT_SOLVER;
     bc_comparison_free(&cmp);
     return rc;
@@ -192,15 +204,36 @@ static int run_one(const solve_args *a, const bc_model *m)
 {
     bc_solution sol;
     bc_solution_init(&sol);
-    bc_solve_status st = bc_solve(m, a->method, &a->o, &sol);
+    bc_prove_opts po = a->proof;
+    bc_method method = a->method;
+    if (method == BC_METHOD_EXACT) { /* the float solve, then an exact-only proof */
+        method = BC_METHOD_AUTO;
+        po.mode = BC_PROVE_EXACT;
+    }
+    if (a->o.max_seconds > 0)
+        po.exact.max_seconds = a->o.max_seconds;
+    bc_solve_status st = bc_solve(m, method, &a->o, &sol);
+    bc_proof_result pr;
+    memset(&pr, 0, sizeof pr);
+    int proved = st == BC_SOLVE_OK ? bc_prove_solution(m, &sol, &po, &pr) : 0;
+    if (proved < 0) {
+        fprintf(stderr, "bellcheck solve: the %s proof failed: %s\n",
+                po.mode == BC_PROVE_EXACT ? "exact" : "interval", pr.message);
+        st = BC_SOLVE_FAILED;
+    }
+    if (st == BC_SOLVE_OK && a->method == BC_METHOD_EXACT) {
+        sol.method = BC_METHOD_EXACT;
+        sol.seconds += pr.seconds; /* the method's time includes its exact part */
+    }
     if (bc_cli_text_wanted(&a->c))
-        bc_report_solve_text(stdout, m, &sol, (int32_t)a->show);
+        bc_report_solve_text(stdout, m, &sol, st == BC_SOLVE_OK ? &pr : NULL, (int32_t)a->show);
     int rc = st == BC_SOLVE_OK ? BC_EXIT_OK : BC_EXIT_SOLVER;
-    if (st != BC_SOLVE_OK)
+    if (st != BC_SOLVE_OK && proved >= 0)
         fprintf(stderr, "bellcheck solve: %s: %s\n", bc_method_name(sol.method), sol.message);
     /* A failed solve writes nothing: its numbers are not an answer. */
-    if (st == BC_SOLVE_OK && write_outputs(a, m, &sol, NULL) < 0)
+    if (st == BC_SOLVE_OK && write_outputs(a, m, &sol, &pr, NULL) < 0)
         rc = BC_EXIT_SOLVER;
+    bc_proof_result_free(&pr);
     bc_solution_free(&sol);
     return rc;
 }
@@ -210,6 +243,7 @@ int bc_cli_solve(int argc, char **argv)
     solve_args a;
     memset(&a, 0, sizeof a);
     bc_solve_opts_default(&a.o);
+    bc_prove_opts_default(&a.proof);
     a.show = 10;
     int rc = parse_args(argc, argv, &a);
     if (rc != 0)
@@ -219,10 +253,11 @@ int bc_cli_solve(int argc, char **argv)
     bc_model *m = bc_cli_load_model(a.path, &a.c);
     if (!m)
         return BC_EXIT_USAGE;
-    int ok = usable(m, strcmp(a.path, "-") ? a.path : "<stdin>");
-    if (ok > 0 && m->horizon > 0 && a.method != BC_METHOD_AUTO && a.method != BC_METHOD_BACKWARD) {
+    int ok = bc_cli_model_usable(m, a.path);
+    if (ok > 0 && m->horizon > 0 && a.method != BC_METHOD_AUTO && a.method != BC_METHOD_BACKWARD &&
+        a.method != BC_METHOD_EXACT) {
         bc_cli_usage_error("solve", "the model has a horizon of %d decisions, which only backward "
-                                    "induction solves: use --method backward or auto",
+                                    "induction solves: use --method backward, exact or auto",
                            (int)m->horizon);
         ok = 0;
     }

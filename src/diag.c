@@ -3,6 +3,7 @@
 #include "bellcheck.h"
 
 #include <stdarg.h>
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -20,13 +21,71 @@ void bc_diag_free(bc_diag *d)
     }
     free(d->items);
     int max = d->max_errors;
+    uint64_t max_memory = d->max_memory;
     memset(d, 0, sizeof *d);
     d->max_errors = max;
+    d->max_memory = max_memory;
+}
+
+/* bytes as "123 bytes", "4.5 KiB", "12.0 MiB" ... for messages. */
+static void size_text(char *buf, size_t cap, uint64_t bytes)
+{
+    static const char *const unit[] = {"KiB", "MiB", "GiB", "TiB", "PiB", "EiB"};
+    if (bytes < 1024) {
+        snprintf(buf, cap, "%llu bytes", (unsigned long long)bytes);
+        return;
+    }
+    double v = (double)bytes / 1024;
+    int u = 0;
+    while (v >= 1024 && u < 5) {
+        v /= 1024;
+        u++;
+    }
+    snprintf(buf, cap, "%.1f %s", v, unit[u]);
+}
+
+int bc_diag_memory_refused(bc_diag *d, const char *file, uint64_t bytes, const char *what)
+{
+    if (d->max_memory == 0 || bytes <= d->max_memory)
+        return 0;
+    char need[32], limit[32];
+    size_text(need, sizeof need, bytes);
+    size_text(limit, sizeof limit, d->max_memory);
+    bc_diag_add(d, BC_ERROR, file, 0, 0, "%s needs %s, more than the memory limit of %s "
+                "(--max-memory)", what, need, limit);
+    return 1;
 }
 
 int bc_diag_full(const bc_diag *d)
 {
     return d->max_errors > 0 && d->n_errors >= d->max_errors;
+}
+
+/* Length of the valid UTF-8 sequence (2 to 4 bytes) at s, or 0. */
+static size_t utf8_sequence(const unsigned char *s)
+{
+    size_t n = s[0] >= 0xC2 && s[0] <= 0xDF ? 2 : s[0] >= 0xE0 && s[0] <= 0xEF ? 3
+             : s[0] >= 0xF0 && s[0] <= 0xF4 ? 4 : 0;
+    for (size_t i = 1; i < n; i++)
+        if ((s[i] & 0xC0) != 0x80)
+            return 0; /* also stops at the terminating NUL */
+    return n;
+}
+
+/* Messages quote the input they complain about, which may be binary: control
+ * bytes and bytes that are not UTF-8 become '?', so that a message stays one
+ * printable line (in place: each byte is kept or replaced by one byte). */
+static void make_printable(char *msg)
+{
+    unsigned char *p = (unsigned char *)msg;
+    while (*p) {
+        size_t n = *p >= 0x80 ? utf8_sequence(p) : 1;
+        if (n == 0 || *p < 0x20 || *p == 0x7F) {
+            *p++ = '?';
+            continue;
+        }
+        p += n;
+    }
 }
 
 int bc_diag_add(bc_diag *d, bc_severity sev, const char *file, int32_t line, int32_t col,
@@ -53,8 +112,10 @@ int bc_diag_add(bc_diag *d, bc_severity sev, const char *file, int32_t line, int
     va_copy(ap2, ap);
     int len = vsnprintf(NULL, 0, fmt, ap);
     char *msg = len >= 0 ? malloc((size_t)len + 1) : NULL;
-    if (msg)
+    if (msg) {
         vsnprintf(msg, (size_t)len + 1, fmt, ap2);
+        make_printable(msg);
+    }
     va_end(ap2);
     va_end(ap);
     bc_diag_item *it = &d->items[d->n++];

@@ -1,11 +1,24 @@
-/* names.c — interned state and action names: one character arena, open-addressing hash lookup. */
+/* names.c — interned state and action names: one character arena, a direct table for names of the form prefix + number, open-addressing hash lookup for the rest. */
 /*
  * SPDX-License-Identifier: GPL-3.0-or-later
  *
  * Names live back to back (NUL-terminated) in one growing arena, addressed by
- * offset so that growing it never invalidates anything; the hash table holds
- * name indices with 32 bits of their hash and is kept at most half full, so a
- * lookup probes O(1) slots and touches the arena only on a likely match.
+ * offset so that growing it never invalidates anything.
+ *
+ * Generated models name their states `s0 s1 s2 ...`: a prefix and a
+ * decimal number.  The table fixes one prefix (the non-digit head of the
+ * first such name it sees while empty) and keeps `dense[k]` = the index of
+ * prefix + k, so those lookups parse a few digits and read one array
+ * element instead of hashing and comparing text.  Every other name (another
+ * prefix, a leading zero, a number beyond the dense range) goes to the hash
+ * table, which holds name indices with 32 bits of their hash, is kept at
+ * most half full, and touches the arena only on a likely match.
+ *
+ * Invariant: a name is in exactly one of the two structures.  A name of the
+ * dense form whose number was beyond the dense range when it was added stays
+ * in the hash table after the range grows, so a lookup of the dense form
+ * that finds nothing in `dense` also asks the hash table (only misses pay
+ * this, i.e. names seen for the first time).
  */
 #include "bellcheck.h"
 
@@ -21,6 +34,10 @@ typedef struct {
     uint64_t offset; /* where the name starts in the arena */
 } slot_t;
 
+/* Longest prefix and number (digits) the direct table handles. */
+#define DENSE_PREFIX_MAX 15
+#define DENSE_DIGITS_MAX 9
+
 struct bc_names {
     char *arena;
     size_t arena_len, arena_cap;
@@ -29,16 +46,73 @@ struct bc_names {
     int32_t count, cap;
     slot_t *slot;        /* [n_slots] */
     size_t n_slots;      /* power of two */
+    int32_t n_hashed;    /* names held in the hash table */
+    char prefix[DENSE_PREFIX_MAX + 1];
+    size_t prefix_len;   /* 0: no prefix fixed yet (or none possible) */
+    int prefix_fixed;
+    int32_t *dense;      /* [dense_cap] name index of prefix + k, or -1 */
+    int64_t dense_cap;
 };
 
+/* 64-bit hash of s[0..len): 8 bytes at a time, then a final mix
+ * (the multiply-xorshift steps of splitmix64, common practice). */
 static uint64_t name_hash(const char *s, size_t len)
 {
-    uint64_t h = 1469598103934665603ULL; /* FNV-1a, then a final mix */
-    for (size_t i = 0; i < len; i++)
-        h = (h ^ (unsigned char)s[i]) * 1099511628211ULL;
-    h ^= h >> 29;
-    h *= 0xbf58476d1ce4e5b9ULL;
+    uint64_t h = 0x9E3779B97F4A7C15ULL ^ (len * 0xBF58476D1CE4E5B9ULL);
+    size_t i = 0;
+    for (; i + 8 <= len; i += 8) {
+        uint64_t w;
+        memcpy(&w, s + i, 8);
+        h = (h ^ w) * 0x94D049BB133111EBULL;
+        h ^= h >> 29;
+    }
+    if (i < len) {
+        uint64_t w = 0;
+        memcpy(&w, s + i, len - i);
+        h = (h ^ w) * 0x94D049BB133111EBULL;
+    }
+    h ^= h >> 31;
+    h *= 0xBF58476D1CE4E5B9ULL;
     return h ^ (h >> 32);
+}
+
+/* Splits s into a non-digit head and a decimal number without leading zero
+ * (k = 0 is "0" itself).  Returns the head length, or -1 when s is not of
+ * that form within the limits. */
+static int dense_split(const char *s, size_t len, int64_t *k)
+{
+    size_t d = len;
+    while (d > 0 && s[d - 1] >= '0' && s[d - 1] <= '9')
+        d--;
+    size_t nd = len - d;
+    if (nd == 0 || nd > DENSE_DIGITS_MAX || d == 0 || d > DENSE_PREFIX_MAX ||
+        (nd > 1 && s[d] == '0'))
+        return -1;
+    int64_t v = 0;
+    for (size_t i = d; i < len; i++)
+        v = v * 10 + (s[i] - '0');
+    *k = v;
+    return (int)d;
+}
+
+/* The dense slot of s, or NULL when s is not prefix + number in range
+ * (the same form dense_split accepts, read forwards). */
+static int32_t *dense_at(const bc_names *t, const char *s, size_t len)
+{
+    size_t p = t->prefix_len;
+    if (!p || len <= p || len - p > DENSE_DIGITS_MAX || (s[p] == '0' && len - p > 1))
+        return NULL;
+    for (size_t i = 0; i < p; i++) /* prefixes are short: no library call */
+        if (s[i] != t->prefix[i])
+            return NULL;
+    int64_t k = 0;
+    for (size_t i = p; i < len; i++) {
+        unsigned dgt = (unsigned)(s[i] - '0');
+        if (dgt > 9)
+            return NULL;
+        k = k * 10 + dgt;
+    }
+    return k < t->dense_cap ? &t->dense[k] : NULL;
 }
 
 bc_names *bc_names_new(void)
@@ -64,6 +138,7 @@ void bc_names_free(bc_names *t)
     free(t->offset);
     free(t->len);
     free(t->slot);
+    free(t->dense);
     free(t);
 }
 
@@ -71,13 +146,17 @@ void bc_names_free(bc_names *t)
 static int names_equal(const bc_names *t, uint64_t offset, const char *s, size_t len)
 {
     const char *a = t->arena + offset;
-    return memcmp(a, s, len) == 0 && a[len] == 0;
+    if (a[len] != 0)
+        return 0;
+    for (size_t i = 0; i < len; i++)
+        if (a[i] != s[i])
+            return 0;
+    return 1;
 }
 
-int32_t bc_names_find(const bc_names *t, const char *s, size_t len)
+static int32_t hash_find(const bc_names *t, const char *s, size_t len, uint64_t h)
 {
     size_t mask = t->n_slots - 1;
-    uint64_t h = name_hash(s, len);
     uint32_t tag = (uint32_t)(h >> 32);
     for (size_t k = h & mask;; k = (k + 1) & mask) {
         int32_t i = t->slot[k].index;
@@ -88,8 +167,29 @@ int32_t bc_names_find(const bc_names *t, const char *s, size_t len)
     }
 }
 
+int32_t bc_names_find(const bc_names *t, const char *s, size_t len)
+{
+    const int32_t *d = dense_at(t, s, len);
+    if (d && *d >= 0)
+        return *d;
+    if (t->n_hashed == 0)
+        return -1;
+    return hash_find(t, s, len, name_hash(s, len));
+}
+
 void bc_names_prefetch(const bc_names *t, const char *s, size_t len, int stage)
 {
+    /* A name that looks like prefix + number is (almost always) in the
+     * dense table, a small array that stays in the cache: no hint needed. */
+    if (t->prefix_len && len > t->prefix_len && s[0] == t->prefix[0] && s[len - 1] >= '0' &&
+        s[len - 1] <= '9')
+        return;
+    const int32_t *d = dense_at(t, s, len);
+    if (d) {
+        if (stage == 0)
+            __builtin_prefetch(d);
+        return;
+    }
     uint64_t h = name_hash(s, len);
     const slot_t *sl = &t->slot[h & (t->n_slots - 1)];
     if (stage == 0)
@@ -109,6 +209,13 @@ static void slot_insert(slot_t *slot, size_t n_slots, uint64_t h, int32_t i, uin
     slot[k].offset = offset;
 }
 
+/* 1 when name i is held by the dense table. */
+static int in_dense(const bc_names *t, int32_t i)
+{
+    const int32_t *d = dense_at(t, t->arena + t->offset[i], t->len[i]);
+    return d && *d == i;
+}
+
 static int names_rehash(bc_names *t, size_t n_slots)
 {
     slot_t *slot = malloc(n_slots * sizeof *slot);
@@ -116,7 +223,9 @@ static int names_rehash(bc_names *t, size_t n_slots)
         return -1;
     memset(slot, 0xff, n_slots * sizeof *slot);
     for (int32_t i = 0; i < t->count; i++)
-        slot_insert(slot, n_slots, name_hash(t->arena + t->offset[i], t->len[i]), i, t->offset[i]);
+        if (!in_dense(t, i))
+            slot_insert(slot, n_slots, name_hash(t->arena + t->offset[i], t->len[i]), i,
+                        t->offset[i]);
     free(t->slot);
     t->slot = slot;
     t->n_slots = n_slots;
@@ -150,9 +259,51 @@ static int names_reserve(bc_names *t, size_t len)
         t->arena = a;
         t->arena_cap = cap;
     }
-    if ((size_t)(t->count + 1) * 2 > t->n_slots)
-        return names_rehash(t, t->n_slots * 2);
     return 0;
+}
+
+/* Grows the dense range to cover number k when k is below DENSE_FREE or
+ * within a constant factor of the names held (so a stray large number cannot
+ * make the range huge; successors in random order name large numbers
+ * early).  Names already hashed stay where they are.  0, or -1 when the
+ * range stays as it is (out of memory or k too far). */
+#define DENSE_FREE (1 << 22)
+static int dense_cover(bc_names *t, int64_t k)
+{
+    if (k < t->dense_cap)
+        return 0;
+    if (k >= DENSE_FREE && k > 4 * (int64_t)t->count)
+        return -1;
+    int64_t cap = t->dense_cap ? t->dense_cap : 1024;
+    while (cap <= k)
+        cap *= 2;
+    int32_t *d = realloc(t->dense, (size_t)cap * sizeof *d);
+    if (!d)
+        return -1;
+    for (int64_t j = t->dense_cap; j < cap; j++)
+        d[j] = -1;
+    t->dense = d;
+    t->dense_cap = cap;
+    return 0;
+}
+
+/* Where a new name s goes: its dense slot, or NULL for the hash table.
+ * The prefix is fixed by the first name, if it has the dense form. */
+static int32_t *dense_slot_for_new(bc_names *t, const char *s, size_t len)
+{
+    int64_t k;
+    int d = dense_split(s, len, &k);
+    if (!t->prefix_fixed) {
+        t->prefix_fixed = 1;
+        if (d > 0) {
+            memcpy(t->prefix, s, (size_t)d);
+            t->prefix_len = (size_t)d;
+        }
+    }
+    if (d <= 0 || (size_t)d != t->prefix_len || memcmp(s, t->prefix, (size_t)d) != 0 ||
+        dense_cover(t, k) < 0)
+        return NULL;
+    return &t->dense[k];
 }
 
 int32_t bc_names_intern(bc_names *t, const char *s, size_t len)
@@ -162,13 +313,21 @@ int32_t bc_names_intern(bc_names *t, const char *s, size_t len)
         return found;
     if (len > UINT32_MAX || names_reserve(t, len) < 0)
         return -1;
+    int32_t *d = dense_slot_for_new(t, s, len);
+    if (!d && (size_t)(t->n_hashed + 1) * 2 > t->n_slots && names_rehash(t, t->n_slots * 2) < 0)
+        return -1;
     int32_t i = t->count++;
     t->offset[i] = t->arena_len;
     t->len[i] = (uint32_t)len;
     memcpy(t->arena + t->arena_len, s, len);
     t->arena[t->arena_len + len] = 0;
     t->arena_len += len + 1;
-    slot_insert(t->slot, t->n_slots, name_hash(s, len), i, t->offset[i]);
+    if (d) {
+        *d = i;
+    } else {
+        slot_insert(t->slot, t->n_slots, name_hash(s, len), i, t->offset[i]);
+        t->n_hashed++;
+    }
     return i;
 }
 

@@ -43,7 +43,51 @@ static void summary_text(FILE *f, const bc_model *m, const bc_findings *fd, cons
             (int)support, support == 1 ? "" : "s");
 }
 
+/* The grid's own findings (bc_grid_analyse); returns the number of warnings. */
+static int grid_text(FILE *f, const bc_model *m, const bc_grid_findings *gf)
+{
+    char cells[200];
+    size_t n = 0;
+    for (int32_t j = 0; j < gf->opts.n_dims && n < sizeof cells; j++)
+        n += (size_t)snprintf(cells + n, sizeof cells - n, "%s%d", j ? "x" : "", (int)gf->opts.cells[j]);
+    fprintf(f, "  note     grid of %s cells, scheme %s\n", cells, bc_scheme_name(gf->opts.scheme));
+    if (gf->n_stuck == 0) {
+        fputs("  ok       no cell is held in place by the grid alone\n", f);
+    } else {
+        fprintf(f, "  warning  %d cell%s stuck: every action keeps %s in the cell with probability "
+                   "1 although the dynamics move %s centre (one step moves less than a cell); "
+                   "a finer grid than %s or another --scheme (sample, interp) frees %s: ",
+                (int)gf->n_stuck, gf->n_stuck == 1 ? " is" : "s are", gf->n_stuck == 1 ? "it" : "them",
+                gf->n_stuck == 1 ? "its" : "their", cells, gf->n_stuck == 1 ? "it" : "them");
+        name_list(f, m, gf->stuck, gf->n_stuck);
+    }
+    if (gf->n_never_entered == 0) {
+        fputs("  ok       every cell is entered from another cell or by the initial distribution\n", f);
+    } else {
+        fprintf(f, "  warning  %d cell%s never entered (no other cell leads there and the initial "
+                   "distribution misses %s): ", (int)gf->n_never_entered,
+                gf->n_never_entered == 1 ? " is" : "s are", gf->n_never_entered == 1 ? "it" : "them");
+        name_list(f, m, gf->never_entered, gf->n_never_entered);
+    }
+    if (gf->n_idle_actions == 0) {
+        fputs("  ok       every action changes the cell somewhere\n", f);
+    } else {
+        fprintf(f, "  warning  %d action%s never change%s the cell: ", (int)gf->n_idle_actions,
+                gf->n_idle_actions == 1 ? "" : "s", gf->n_idle_actions == 1 ? "s" : "");
+        for (int32_t k = 0; k < gf->n_idle_actions; k++)
+            fprintf(f, "%s%s", k ? ", " : "", bc_names_get(m->action_names, gf->idle_actions[k]));
+        fputc('\n', f);
+    }
+    return (gf->n_stuck > 0) + (gf->n_never_entered > 0) + (gf->n_idle_actions > 0);
+}
+
 int bc_report_check_text(FILE *f, const bc_model *m, const bc_findings *fd, const char *source)
+{
+    return bc_report_check_grid_text(f, m, fd, NULL, source);
+}
+
+int bc_report_check_grid_text(FILE *f, const bc_model *m, const bc_findings *fd,
+                              const bc_grid_findings *gf, const char *source)
 {
     summary_text(f, m, fd, source);
     fputs("findings\n", f);
@@ -102,7 +146,8 @@ int bc_report_check_text(FILE *f, const bc_model *m, const bc_findings *fd, cons
         }
     }
     int warnings = (m->n_renormalised > 0) + (m->initial_renormalised_line != 0) +
-                   (fd->n_unreachable > 0) + (fd->n_zero_cycle_states > 0);
+                   (fd->n_unreachable > 0) + (fd->n_zero_cycle_states > 0) +
+                   (gf ? grid_text(f, m, gf) : 0);
     if (bc_findings_fatal(m, fd))
         fputs("verdict: not usable (see the error above)\n", f);
     else if (warnings)
@@ -145,7 +190,35 @@ static void json_state_list(bc_jw *w, const char *key, const bc_model *m, const 
     bc_jw_end(w, ']');
 }
 
+/* "grid": the grid's options and findings, or null. */
+static void grid_json(bc_jw *w, const bc_model *m, const bc_grid_findings *gf)
+{
+    if (!gf) {
+        bc_jw_null(w, "grid");
+        return;
+    }
+    bc_jw_object(w, "grid");
+    bc_jw_array(w, "cells");
+    for (int32_t j = 0; j < gf->opts.n_dims; j++)
+        bc_jw_int(w, NULL, gf->opts.cells[j]);
+    bc_jw_end(w, ']');
+    bc_jw_string(w, "scheme", bc_scheme_name(gf->opts.scheme));
+    json_state_list(w, "stuck", m, gf->stuck, gf->n_stuck);
+    json_state_list(w, "never_entered", m, gf->never_entered, gf->n_never_entered);
+    bc_jw_array(w, "idle_actions");
+    for (int32_t k = 0; k < gf->n_idle_actions; k++)
+        bc_jw_string(w, NULL, bc_names_get(m->action_names, gf->idle_actions[k]));
+    bc_jw_end(w, ']');
+    bc_jw_end(w, '}');
+}
+
 int bc_report_check_json(FILE *f, const bc_model *m, const bc_findings *fd, const char *source)
+{
+    return bc_report_check_grid_json(f, m, fd, NULL, source);
+}
+
+int bc_report_check_grid_json(FILE *f, const bc_model *m, const bc_findings *fd,
+                              const bc_grid_findings *gf, const char *source)
 {
     bc_jw w;
     bc_jw_init(&w, f);
@@ -168,6 +241,7 @@ int bc_report_check_json(FILE *f, const bc_model *m, const bc_findings *fd, cons
         bc_jw_null(&w, "zero_reward_loops");
         bc_jw_null(&w, "unbounded");
     }
+    grid_json(&w, m, gf);
     bc_jw_end(&w, '}');
     bc_jw_finish(&w);
     return ferror(f) ? -1 : 0;

@@ -3,6 +3,7 @@
 #include "report_internal.h"
 
 #include <math.h>
+#include <string.h>
 
 static const char model_only[] =
     "These figures hold for the model only. They do not show that a machine driven by this\n"
@@ -41,17 +42,27 @@ static void verdict_text(FILE *f, const bc_model *m, const bc_score *s)
 
 static void figures_text(FILE *f, const bc_model *m, const bc_score *s)
 {
-    fprintf(f, "  agent value at initial     %.10g\n", s->value_initial);
-    fprintf(f, "  optimal value at initial   %.10g", s->optimal_initial);
-    if (s->optimum.bound >= 0)
-        fprintf(f, "  (+/- %.2g, proven)", s->optimum.bound);
+    fputs("  regret at initial          ", f);
+    bc__value_text(f, s->regret_initial, s->regret_initial_proof);
+    if (s->exact_regret_initial && strlen(s->exact_regret_initial) <= 60)
+        fprintf(f, " = %s", s->exact_regret_initial);
+    fputs("\n  agent value at initial     ", f);
+    bc__value_text(f, s->value_initial, s->value_initial_proof);
+    fputs("\n  optimal value at initial   ", f);
+    bc__value_text(f, s->optimal_initial, s->optimal_initial_proof);
     fputc('\n', f);
-    if (s->worst_state >= 0)
-        fprintf(f, "  worst single state         %s, regret %.6g\n",
-                bc_names_get(m->state_names, s->worst_state), s->regret_max_state);
+    if (s->worst_state >= 0) {
+        fprintf(f, "  worst single state         %s, regret ",
+                bc_names_get(m->state_names, s->worst_state));
+        bc__value_text(f, s->regret_max_state, s->regret_max_state_proof);
+        fputc('\n', f);
+    }
     if (s->has_q) {
-        fprintf(f, "  Bellman residual of Q      %.6g\n", s->residual);
-        fprintf(f, "  max |Q - Q*|               %.6g\n", s->q_error);
+        fputs("  Bellman residual of Q      ", f);
+        bc__value_text(f, s->residual, s->residual_proof);
+        fputs("\n  max |Q - Q*|               ", f);
+        bc__value_text(f, s->q_error, s->q_error_proof);
+        fputc('\n', f);
         if (!isnan(s->regret_bound))
             fprintf(f, "  regret bound from residual %.6g  (true regret %.6g)\n", s->regret_bound,
                     s->regret_initial);
@@ -191,13 +202,23 @@ int bc_report_score_json(FILE *f, const bc_model *m, const bc_score *s, const bc
     bc_jw_number(&w, "value_initial", s->value_initial);
     bc_jw_number(&w, "optimal_initial", s->optimal_initial);
     bc_jw_number(&w, "optimal_bound", s->optimum.bound >= 0 ? s->optimum.bound : NAN);
+    bc__proof_json(&w, "value_initial_proof", s->value_initial_proof);
+    bc__proof_json(&w, "optimal_initial_proof", s->optimal_initial_proof);
+    bc__proof_json(&w, "values_proof", s->values_proof);
+    bc_jw_string(&w, "exact_value_initial", s->exact_value_initial);
     bc_jw_object(&w, "regret");
     bc_jw_number(&w, "initial", s->regret_initial);
+    bc__proof_json(&w, "initial_proof", s->regret_initial_proof);
+    bc_jw_string(&w, "exact_initial", s->exact_regret_initial);
     bc_jw_number(&w, "max_state", s->regret_max_state);
+    bc__proof_json(&w, "max_state_proof", s->regret_max_state_proof);
     bc_jw_string(&w, "worst_state", s->worst_state >= 0 ? bc_names_get(m->state_names, s->worst_state) : NULL);
     bc_jw_end(&w, '}');
     bc_jw_number(&w, "residual", s->has_q ? s->residual : NAN);
+    bc__proof_json(&w, "residual_proof", s->residual_proof);
     bc_jw_number(&w, "q_error", s->has_q ? s->q_error : NAN);
+    bc__proof_json(&w, "q_error_proof", s->q_error_proof);
+    bc__proof_json(&w, "optimum_proof", s->optimum_proof.value);
     bc_jw_number(&w, "regret_bound", s->regret_bound);
     bc_jw_int(&w, "tied_states", s->n_tied);
     bc_jw_int(&w, "wrong_states", s->n_wrong);

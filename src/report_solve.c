@@ -8,10 +8,11 @@
 static const char *method_long(bc_method m)
 {
     switch (m) {
-    case BC_METHOD_VI: return "Gauss-Seidel value iteration";
+    case BC_METHOD_VI: return "value iteration";
     case BC_METHOD_PI: return "policy iteration (Howard)";
     case BC_METHOD_LP: return "linear programming (GLPK simplex)";
     case BC_METHOD_BACKWARD: return "backward induction";
+    case BC_METHOD_EXACT: return "floating-point solve, then exact policy iteration (GMP)";
     default: return "?";
     }
 }
@@ -26,16 +27,40 @@ static const char *status_word(bc_solve_status s)
     }
 }
 
-/* "± 3.2e-10 (proven)" or "(no proven bound)". */
-static void bound_text(FILE *f, double bound)
+static const bc_proof no_proof = {BC_PROOF_NONE, -1};
+
+/* The proof lines: what was proven about the values and the policy. */
+static void proof_text(FILE *f, const bc_model *m, const bc_proof_result *pr)
 {
-    if (bound >= 0)
-        fprintf(f, "+/- %.2g (proven bound)", bound);
+    if (!pr)
+        return;
+    fprintf(f, "proof: %s", bc_proof_kind_name(pr->value.kind));
+    if (pr->value.kind == BC_PROOF_EXACT)
+        fprintf(f, " (every value below is the double nearest the exact rational optimum; "
+                   "the policy is exactly optimal%s)\n",
+                pr->n_corrected ? ", corrected by the exact check" : "");
+    else if (pr->value.kind == BC_PROOF_INTERVAL)
+        fprintf(f, " (every value below is within %.2g of V*; the policy's action is proven "
+                   "optimal in %d of %d states%s)\n",
+                pr->value.bound, (int)pr->n_proven_optimal,
+                (int)(pr->n_proven_optimal + pr->n_undecided),
+                pr->n_undecided ? "" : ", so the policy is optimal");
     else
-        fputs("(no proven bound)", f);
+        fputs(" (the numbers below are the solver's estimates)\n", f);
+    if (pr->value.kind == BC_PROOF_INTERVAL && pr->n_undecided && pr->policy_loss >= 0)
+        fprintf(f, "  elsewhere its action is within %.2g of optimal (proven)\n", pr->policy_loss);
+    if (pr->message[0])
+        fprintf(f, "  %s\n", pr->message);
+    if (pr->has_exact && m->n_states <= 20)
+        for (int32_t s = 0; s < m->n_states; s++) {
+            fprintf(f, "  V*(%s) = ", bc_names_get(m->state_names, s));
+            mpq_out_str(f, 10, pr->exact.values[s]);
+            fputc('\n', f);
+        }
 }
 
-int bc_report_solve_text(FILE *f, const bc_model *m, const bc_solution *sol, int32_t show)
+int bc_report_solve_text(FILE *f, const bc_model *m, const bc_solution *sol,
+                         const bc_proof_result *pr, int32_t show)
 {
     char *g = bc_num_text(m->discount_exact, m->big);
     fprintf(f, "model %s: %d states, %d actions, discount %s, objective %s\n", m->name,
@@ -49,9 +74,14 @@ int bc_report_solve_text(FILE *f, const bc_model *m, const bc_solution *sol, int
         fprintf(f, "  %s\n", sol->message);
     if (!sol->values || sol->status != BC_SOLVE_OK) /* no answer to show */
         return ferror(f) ? -1 : 0;
-    fprintf(f, "optimal value at the initial distribution: %.10g ", sol->value_initial);
-    bound_text(f, sol->bound);
+    fputs("optimal value at the initial distribution: ", f);
+    bc__value_text(f, sol->value_initial, pr ? pr->initial : (bc_proof){BC_PROOF_NONE, sol->bound});
+    if (pr && pr->has_exact) {
+        fputs(" = ", f);
+        mpq_out_str(f, 10, pr->exact.value_initial);
+    }
     fputc('\n', f);
+    proof_text(f, m, pr);
     if (m->horizon > 0)
         fprintf(f, "(values and policy below are those of the first of %d stages)\n", (int)m->horizon);
     int32_t n = m->n_states < show ? m->n_states : show;
@@ -78,14 +108,15 @@ static void json_bound(bc_jw *w, double bound)
         bc_jw_null(w, "bound");
 }
 
-/* method, status, value_initial, bound, iterations, seconds, message. */
-static void json_solution_head(bc_jw *w, const bc_solution *sol)
+/* method, status, value_initial, bound, iterations, seconds, message;
+ * the bound is the proof's when there is one, else the solver's own. */
+static void json_solution_head(bc_jw *w, const bc_solution *sol, const bc_proof *value_proof)
 {
     bc_jw_string(w, "method", bc_method_name(sol->method));
     bc_jw_string(w, "status", status_word(sol->status));
     bc_jw_number(w, "value_initial", sol->value_initial);
-    json_bound(w, sol->bound);
-    bc_jw_bool(w, "bound_proven", sol->bound >= 0);
+    json_bound(w, value_proof && value_proof->kind != BC_PROOF_NONE ? value_proof->bound : sol->bound);
+    bc_jw_bool(w, "bound_proven", value_proof ? value_proof->kind != BC_PROOF_NONE : sol->bound >= 0);
     bc_jw_int(w, "iterations", sol->iterations);
     bc_jw_number(w, "seconds", sol->seconds);
     bc_jw_string(w, "message", sol->message);
@@ -109,13 +140,45 @@ static void json_values(bc_jw *w, const bc_model *m, const double *v)
     bc_jw_end(w, '}');
 }
 
-int bc_report_solve_json(FILE *f, const bc_model *m, const bc_solution *sol)
+/* "proof": kind, bound and what it says about the policy. */
+static void json_proof(bc_jw *w, const bc_model *m, const bc_proof_result *pr)
+{
+    bc_jw_object(w, "proof");
+    bc_jw_string(w, "kind", bc_proof_kind_name(pr->value.kind));
+    json_bound(w, pr->value.bound);
+    bc_jw_bool(w, "policy_optimal", pr->value.kind != BC_PROOF_NONE && pr->policy_optimal);
+    bc_jw_int(w, "states_proven_optimal", pr->n_proven_optimal);
+    bc_jw_int(w, "states_undecided", pr->n_undecided);
+    if (pr->policy_loss >= 0)
+        bc_jw_number(w, "policy_loss_bound", pr->policy_loss);
+    else
+        bc_jw_null(w, "policy_loss_bound");
+    bc_jw_int(w, "states_corrected", pr->n_corrected);
+    bc_jw_number(w, "seconds", pr->seconds);
+    bc_jw_string(w, "message", pr->message);
+    bc_jw_end(w, '}');
+    bc__proof_json(w, "value_initial_proof", pr->initial);
+    if (!pr->has_exact)
+        return;
+    bc__mpq_json(w, "exact_value_initial", pr->exact.value_initial);
+    bc_jw_object(w, "exact_values");
+    for (int32_t s = 0; s < m->n_states; s++)
+        bc__mpq_json(w, bc_names_get(m->state_names, s), pr->exact.values[s]);
+    bc_jw_end(w, '}');
+}
+
+int bc_report_solve_json(FILE *f, const bc_model *m, const bc_solution *sol,
+                         const bc_proof_result *pr)
 {
     bc_jw w;
     bc_jw_init(&w, f);
     bc_jw_object(&w, NULL);
     bc__json_model(&w, m);
-    json_solution_head(&w, sol);
+    json_solution_head(&w, sol, pr ? &pr->value : NULL);
+    if (pr)
+        json_proof(&w, m, pr);
+    else
+        bc__proof_json(&w, "proof", no_proof);
     if (sol->values) {
         json_values(&w, m, sol->values);
         json_policy(&w, "policy", m, sol->policy);
@@ -135,16 +198,19 @@ int bc_report_compare_text(FILE *f, const bc_model *m, const bc_comparison *c)
 {
     fprintf(f, "model %s: %d states, solved by each method in turn\n", m->name,
             (int)m->n_states);
-    fprintf(f, "%-8s %-14s %-20s %-12s %-10s\n", "method", "status", "value at initial", "bound",
-            "seconds");
+    fprintf(f, "%-8s %-14s %-20s %-28s %-10s\n", "method", "status", "value at initial",
+            "bound (proof)", "seconds");
     for (int i = 0; i < c->n; i++) {
         const bc_solution *s = &c->sol[i];
-        char b[32];
-        if (s->bound >= 0)
-            snprintf(b, sizeof b, "%.2g", s->bound);
+        char b[40];
+        if (c->proof[i].kind != BC_PROOF_NONE)
+            snprintf(b, sizeof b, "%.2g (%s)", c->proof[i].bound,
+                     bc_proof_kind_name(c->proof[i].kind));
+        else if (s->bound >= 0)
+            snprintf(b, sizeof b, "%.2g (solver, unverified)", s->bound);
         else
             snprintf(b, sizeof b, "none");
-        fprintf(f, "%-8s %-14s %-20.12g %-12s %-10.3f\n", bc_method_name(s->method),
+        fprintf(f, "%-8s %-14s %-20.12g %-28s %-10.3f\n", bc_method_name(s->method),
                 status_word(s->status), s->value_initial, b, s->seconds);
         if (s->status != BC_SOLVE_OK)
             fprintf(f, "         %s\n", s->message);
@@ -179,7 +245,8 @@ int bc_report_compare_json(FILE *f, const bc_model *m, const bc_comparison *c)
     bc_jw_array(&w, "methods");
     for (int i = 0; i < c->n; i++) {
         bc_jw_object(&w, NULL);
-        json_solution_head(&w, &c->sol[i]);
+        json_solution_head(&w, &c->sol[i], &c->proof[i]);
+        bc__proof_json(&w, "proof", c->proof[i]);
         bc_jw_end(&w, '}');
     }
     bc_jw_end(&w, ']');

@@ -5,7 +5,9 @@
 # line counts as one failure, so a crash is never silent.
 cd "$(dirname "$0")/.." || exit 2
 BUILD=${BUILD:-build}
-export BELLCHECK="${BELLCHECK:-$PWD/$BUILD/bellcheck}"
+case $BUILD in /*) ;; *) BUILD=$PWD/$BUILD ;; esac
+export BUILD # tests that link the library find it here (tests/cli/library_example.sh)
+export BELLCHECK="${BELLCHECK:-$BUILD/bellcheck}"
 export PY=/usr/bin/python3
 log=$(mktemp -d "${TMPDIR:-/tmp}/bc-tests.XXXXXX") || exit 2
 trap 'rm -rf "$log"' EXIT

@@ -1,8 +1,12 @@
 # library_example.sh — compiles the example program of docs/library.md against the built library and runs it.
+# The library is $BUILD/libbellcheck.a (tests/run.sh exports BUILD), linked
+# with $BC_LIBS (the Makefile exports its LIBS); a library built with
+# sanitizers needs the same flags at link time: BC_SANITIZE_FLAGS.
 . "$(dirname "$0")/../lib.sh"
 sed -n '/^```c$/,/^```$/p' "$ROOT/docs/library.md" | sed '1d;$d' | sed 's|<bellcheck.h>|"bellcheck.h"|' > "$TMP/example.c"
-if cc -std=c11 -I"$ROOT/src" -I/usr/include/suitesparse -o "$TMP/example" "$TMP/example.c" \
-     "$ROOT/build/libbellcheck.a" -lglpk -lumfpack -lamd -lcjson -lgmp -lm 2>"$TMP/cc.err"; then
+# shellcheck disable=SC2086
+if cc -std=c11 ${BC_SANITIZE_FLAGS:-} -I"$ROOT/src" -I/usr/include/suitesparse -o "$TMP/example" "$TMP/example.c" \
+     "${BUILD:-$ROOT/build}/libbellcheck.a" ${BC_LIBS:--lglpk -lumfpack -lamd -lcjson -lnettle -lflint -lgmp -lm -fopenmp} 2>"$TMP/cc.err"; then
   pass "library example compiles"
 else
   fail "library example compiles" "$(head -c 400 "$TMP/cc.err")"
