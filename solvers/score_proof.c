@@ -119,9 +119,9 @@ static int agent_interval(const bc_model *m, bc_score *out)
     const int sgn = m->objective == BC_MIN ? -1 : 1;
     size_t n = (size_t)(m->n_states ? m->n_states : 1);
     bc__enclosure e;
-    double *v = malloc(n * sizeof *v), *lo = malloc(n * sizeof *lo), *hi = malloc(n * sizeof *hi);
+    double *v = malloc(n * sizeof *v);
     int rc = -1;
-    if (!v || !lo || !hi || bc__enclosure_build(m, sgn, &e) < 0)
+    if (!v || bc__enclosure_build(m, sgn, &e) < 0)
         goto done;
     for (int32_t s = 0; s < m->n_states; s++)
         v[s] = sgn * out->values[s];
@@ -137,14 +137,8 @@ static int agent_interval(const bc_model *m, bc_score *out)
     double d = fmax(-dmin, dmax);
     double b = d > 0 ? nextafter(d / one_minus_g, INFINITY) : 0.0;
     out->values_proof = (bc_proof){BC_PROOF_INTERVAL, b};
-    for (int32_t s = 0; s < m->n_states; s++) {
-        lo[s] = bc__sub_down(out->values[s], b);
-        hi[s] = bc__add_up(out->values[s], b);
-    }
-    out->value_initial_proof =
-        (bc_proof){BC_PROOF_INTERVAL, bc__initial_bound(m, lo, hi, out->value_initial)};
 done:
-    free(v), free(lo), free(hi);
+    free(v);
     return rc;
 }
 
@@ -250,9 +244,33 @@ static int qtable_proofs(const bc_model *m, const bc_qtable *q, double g_q, bc_s
     return 0;
 }
 
+/* The agent's value at the initial distribution from its values' interval
+ * proof (value_initial is known only once the regrets are computed). */
+static int initial_interval(const bc_model *m, bc_score *out)
+{
+    size_t n = (size_t)(m->n_states ? m->n_states : 1);
+    double *lo = malloc(n * sizeof *lo), *hi = malloc(n * sizeof *hi), b = out->values_proof.bound;
+    if (!lo || !hi) {
+        free(lo), free(hi);
+        return -1;
+    }
+    for (int32_t s = 0; s < m->n_states; s++) {
+        lo[s] = bc__sub_down(out->values[s], b);
+        hi[s] = bc__add_up(out->values[s], b);
+    }
+    out->value_initial_proof =
+        (bc_proof){BC_PROOF_INTERVAL, bc__initial_bound(m, lo, hi, out->value_initial)};
+    free(lo), free(hi);
+    return 0;
+}
+
 int bc_sc_prove_figures(const bc_model *m, const bc_qtable *q, double g_q, const uint8_t *trap,
                         bc_score *out)
 {
+    if (out->values_proof.kind == BC_PROOF_INTERVAL && initial_interval(m, out) < 0) {
+        snprintf(out->message, sizeof out->message, "score: out of memory");
+        return -1;
+    }
     out->regret_initial_proof = sum_of(out->optimal_initial_proof, out->value_initial_proof,
                                        out->regret_initial);
     out->regret_max_state_proof = sum_of(out->optimum_proof.value, out->values_proof,

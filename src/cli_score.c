@@ -24,6 +24,8 @@ static const char help[] =
     "  --discount G        score under discount G instead of the model's\n"
     "  --q-discount G      discount under which the Q-table's residual is measured\n"
     "  --top K             worst states listed (default 5)\n"
+    "  --proof P           auto (default: exact on small models, else intervals), exact,\n"
+    "                      interval or off: what stands behind every figure\n"
     "gates (exit 1 when one fails, naming it):\n"
     "  --max-regret X      regret at the initial distribution at most X (or X%% of |V*|)\n"
     "  --max-state-regret X   regret of every single state at most X\n"
@@ -32,7 +34,7 @@ static const char help[] =
 
 enum { OPT_Q = OPT_FIRST_COMMAND_OPTION, OPT_POLICY, OPT_MISSING, OPT_TIES, OPT_DISCOUNT,
        OPT_Q_DISCOUNT, OPT_TOP, OPT_MAX_REGRET, OPT_MAX_STATE_REGRET, OPT_MAX_RESIDUAL,
-       OPT_MIN_AGREEMENT };
+       OPT_MIN_AGREEMENT, OPT_PROOF };
 
 typedef struct {
     bc_cli_common c;
@@ -92,6 +94,8 @@ static int command_option(score_args *a, int id, const char *arg)
         if (parse_limit("--max-residual", arg, &a->limits.max_residual, &pct) < 0 || pct)
             return pct ? bc_cli_usage_error("score", "--max-residual takes an absolute value") : BC_EXIT_USAGE;
         return 0;
+    case OPT_PROOF:
+        return bc_cli_prove_mode("score", arg, &a->o.prove.mode) < 0 ? BC_EXIT_USAGE : 0;
     case OPT_MIN_AGREEMENT:
         if (parse_limit("--min-agreement", arg, &a->limits.min_agreement, &pct) < 0)
             return BC_EXIT_USAGE;
@@ -120,6 +124,7 @@ static int parse_args(int argc, char **argv, score_args *a)
         {"max-state-regret", required_argument, NULL, OPT_MAX_STATE_REGRET},
         {"max-residual", required_argument, NULL, OPT_MAX_RESIDUAL},
         {"min-agreement", required_argument, NULL, OPT_MIN_AGREEMENT},
+        {"proof", required_argument, NULL, OPT_PROOF},
         {NULL, 0, NULL, 0}};
     int id;
     opterr = 0;

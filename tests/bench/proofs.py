@@ -100,7 +100,7 @@ def interval_table(tmp):
                     "--discount", "0.99", "--seed", "3", "-o", path], check=True)
     out = ["| model | solve seconds | interval proof seconds | ratio (goal <= 0.5) | proven bound |",
            "| --- | --- | --- | --- | --- |"]
-    for method in ("vi", "pi"):
+    for method in ("vi", "auto"):
         rep, wall, rc = run_json(["solve", path, "--method", method, "--proof", "interval"])
         if not rep or rc != 0:
             out.append("| Garnet %d x 4 x 5, %s | failed (%d) | | | |" % (n, method, rc))
