@@ -51,13 +51,13 @@ fail:
     return -1;
 }
 
-static void write_mpq(bc_jw *w, const char *key, const mpq_t x)
+/* 0, or -1 when out of memory (the certificate must then not be kept). */
+static int write_mpq(bc_jw *w, const char *key, const mpq_t x)
 {
-    char *s = mpq_get_str(NULL, 10, x);
+    char *s = bc_mpq_text(x);
     bc_jw_string(w, key, s);
-    void (*release)(void *, size_t);
-    mp_get_memory_functions(NULL, NULL, &release);
-    release(s, strlen(s) + 1);
+    free(s);
+    return s ? 0 : -1;
 }
 
 int bc_write_certificate(FILE *f, const bc_model *m, const bc_certificate *c)
@@ -88,15 +88,16 @@ int bc_write_certificate(FILE *f, const bc_model *m, const bc_certificate *c)
                          bc_names_get(m->action_names, m->pair_action[c->policy[s]]));
     bc_jw_end(&w, '}');
     bc_jw_object(&w, "values");
+    int lost = 0;
     for (int32_t s = 0; s < m->n_states; s++) {
         const char *name = bc_names_get(m->state_names, s);
         if (c->kind == BC_PROOF_EXACT)
-            write_mpq(&w, name, c->exact_values[s]);
+            lost |= write_mpq(&w, name, c->exact_values[s]) < 0;
         else
             bc_jw_number(&w, name, c->values[s]);
     }
     bc_jw_end(&w, '}');
     bc_jw_end(&w, '}');
     bc_jw_finish(&w);
-    return ferror(f) ? -1 : 0;
+    return ferror(f) || lost ? -1 : 0;
 }

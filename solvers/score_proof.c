@@ -41,16 +41,6 @@ int bc_sc_prove_optimum(const bc_model *m, const bc_prove_opts *po, bc_score *ou
     return 0;
 }
 
-static char *mpq_string(const mpq_t x)
-{
-    char *s = mpq_get_str(NULL, 10, x), *copy = s ? strdup(s) : NULL;
-    void (*release)(void *, size_t);
-    mp_get_memory_functions(NULL, NULL, &release);
-    if (s)
-        release(s, strlen(s) + 1);
-    return copy;
-}
-
 /* sum_s initial(s) v(s) exactly over the states not trapped; 0, or 1 when
  * a trap has initial mass (the value is then infinite). */
 static int exact_initial(const bc_model *m, const mpq_t *v, const uint8_t *trap, mpq_t out)
@@ -103,7 +93,7 @@ static int agent_exact(const bc_model *m, const uint8_t *trap, const bc_prove_op
     mpq_t init;
     mpq_init(init);
     if (exact_initial(m, v, trap, init) == 0) {
-        out->exact_value_initial = mpq_string(init);
+        out->exact_value_initial = bc_mpq_text(init);
         out->value_initial_proof =
             (bc_proof){BC_PROOF_EXACT, bc_mpq_distance_up(bc_mpq_to_double(init), init)};
     } else {
@@ -192,7 +182,7 @@ static void regrets_exact(const bc_model *m, const uint8_t *trap, bc_score *out)
         if (sgn < 0)
             mpq_neg(r, r);
         out->regret_initial = bc_mpq_to_double(r);
-        out->exact_regret_initial = mpq_string(r);
+        out->exact_regret_initial = bc_mpq_text(r);
         out->regret_initial_proof =
             (bc_proof){BC_PROOF_EXACT, bc_mpq_distance_up(out->regret_initial, r)};
     }

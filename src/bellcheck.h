@@ -67,6 +67,8 @@ int bc_num_write(FILE *f, bc_num x, const bc_bigtab *big);
 size_t bc_num_format(char *buf, size_t cap, bc_num x, const bc_bigtab *big);
 /* The bc_num_format text of x, whole, in a malloc'ed string; NULL if out of memory. */
 char *bc_num_text(bc_num x, const bc_bigtab *big);
+/* x as "p/q" in lowest terms ("p" for integers), malloc'ed; NULL if out of memory. */
+char *bc_mpq_text(const mpq_t x);
 /* Lowest-terms "p/q" (or "p" for integers) into buf; returns the full length. */
 size_t bc_num_format_fraction(char *buf, size_t cap, bc_num x, const bc_bigtab *big);
 
@@ -828,6 +830,111 @@ int bc_report_grid_text(FILE *f, const bc_model *m, const bc_grid *g, bc_scheme 
                         const char *source, const char *output);
 int bc_report_grid_json(FILE *f, const bc_model *m, const bc_grid *g, bc_scheme scheme,
                         const char *source, const char *output);
+
+/* ------------------------------------------------------------------------ */
+/* Pictures: SVG maps and plots, and the one-file HTML report               */
+/* (src/svg*.c, src/report_svg.c, src/report_html*.c; docs/pictures.md)     */
+/* ------------------------------------------------------------------------ */
+
+/* Where a model's states lie on a grid, and which plane (or line) of it is
+ * drawn: cell (i, j) of the picture, i across along variable axis_x and j
+ * upwards along axis_y, is model state state[i + j * nx] (-1: no state). */
+typedef struct {
+    int32_t n_vars;                       /* variables of the grid, 1 to BC_TASK_MAX_VARS */
+    int32_t cells[BC_TASK_MAX_VARS];      /* cells along each variable */
+    double low[BC_TASK_MAX_VARS];         /* range of each variable (names: index - 0.5 .. index + 0.5) */
+    double high[BC_TASK_MAX_VARS];
+    char var_name[BC_TASK_MAX_VARS][64];
+    int32_t axis_x, axis_y;               /* variables drawn across and up; axis_y = -1: a strip of one */
+    int32_t fixed[BC_TASK_MAX_VARS];      /* cell of each variable not drawn: its middle one, cells / 2 */
+    int32_t nx, ny;                       /* cells drawn across and up (ny = 1 for a strip) */
+    int32_t *state;                       /* [nx * ny] */
+    int from_names;                       /* 1: read from state names (index units); 0: a task's grid */
+} bc_layout;
+
+/* The layout of m = bc_grid_model(t, o) on the plane `slice` ("x,v": variable
+ * names, across then up; one name: a strip; NULL: the first two variables).
+ * 0, or -1 with why[] set (unknown or repeated variable, m not t's grid, out of memory). */
+int bc_layout_task(bc_layout *l, const bc_task *t, const bc_grid_opts *o, const bc_model *m,
+                   const char *slice, char *why, size_t cap);
+/* The layout read from state names in which letters and whole numbers alternate
+ * ("x3y0", "r2c4", "c3_17", "q5"), the same letters in every non-terminal state;
+ * slice names the letter groups ("c,r").  0; 1 when the names are no grid;
+ * -1 for a bad slice or out of memory (why[] says, in both cases). */
+int bc_layout_names(bc_layout *l, const bc_model *m, const char *slice, char *why, size_t cap);
+void bc_layout_free(bc_layout *l); /* frees state; l can be laid out again */
+
+/* Maps over a layout.  Each writes one <svg> element (no XML declaration, so
+ * it also goes inline into HTML); 0, or -1 on a write error. */
+/* A policy (a pair per state, -1 none): one colour per action, legend with the action names. */
+int bc_svg_policy_map(FILE *f, const bc_model *m, const bc_layout *l, const int64_t *policy,
+                      const char *title);
+/* Values per state as a heat map with a colour bar (a line plot for a strip). */
+int bc_svg_value_map(FILE *f, const bc_model *m, const bc_layout *l, const double *values,
+                     const char *title, const char *value_label);
+/* A scored agent: its actions; cells where it acts otherwise than the optimal
+ * policy and loses value marked and shaded by their regret; traps outlined. */
+int bc_svg_agent_map(FILE *f, const bc_model *m, const bc_layout *l, const bc_score *s,
+                     const char *title);
+/* One simulated trajectory: len points of l->n_vars values each, in the task's units. */
+typedef struct {
+    const double *x;
+    int32_t len;
+} bc_path;
+/* Trajectories drawn over the plane of l (policy non-NULL: over its map, faded). */
+int bc_svg_trajectories(FILE *f, const bc_model *m, const bc_layout *l, const int64_t *policy,
+                        const bc_path *paths, int32_t n_paths, const char *title);
+
+/* Line plots. */
+typedef struct {
+    const double *x, *y;  /* n points; non-finite ones (and <= 0 on a log axis) are left out */
+    const double *err;    /* NULL, or half-widths of error bars (negative: none) */
+    int32_t n;
+    const char *label;    /* legend entry, or NULL */
+    int dashed;           /* 1: a dashed guide line without markers */
+} bc_plot_series;
+typedef struct {
+    const char *title, *x_label, *y_label;
+    int log_x, log_y;     /* 1: logarithmic axis */
+    const bc_plot_series *series;
+    int32_t n_series;
+} bc_plot;
+int bc_svg_plot(FILE *f, const bc_plot *p);
+/* Grid refinement: the value on each grid against its cell size, and on a
+ * log-log panel the change from the previous grid, with guides of order 1 and 2. */
+typedef struct {
+    int32_t n;               /* grids, coarsest first */
+    const double *cell_size; /* [n] one length per grid (> 0) */
+    const double *value;     /* [n] e.g. the optimal value at the initial distribution */
+    const double *bound;     /* [n] its proven bound (< 0: none), or NULL */
+    const char *value_label; /* y-axis label of the first panel */
+    const char *size_label;  /* x-axis label, e.g. "cell width / range" */
+} bc_convergence;
+int bc_svg_convergence(FILE *f, const bc_convergence *c);
+
+/* Files of a picture directory: name, and what fills it. */
+typedef struct {
+    const char *name;                         /* e.g. "policy.svg" */
+    int (*write)(FILE *f, const void *ctx);   /* 0, or -1 */
+    const void *ctx;
+} bc_svg_file;
+/* Writes every file into dir, each behind an XML declaration, or none: a new
+ * dir appears whole (built beside it and renamed), an existing one receives
+ * its files only when all were written.  0, or -1 after reporting into d. */
+int bc_svg_write_dir(const char *dir, const bc_svg_file *files, int32_t n, bc_diag *d);
+/* The pictures of a solve (policy.svg, value.svg) or of a score (agent.svg,
+ * policy.svg, value.svg) into dir, as bc_svg_write_dir does.  0 or -1. */
+int bc_report_svg_solve(const char *dir, const bc_model *m, const bc_layout *l,
+                        const bc_solution *sol, bc_diag *d);
+int bc_report_svg_score(const char *dir, const bc_model *m, const bc_layout *l, const bc_score *s,
+                        bc_diag *d);
+/* One self-contained HTML page (inline SVG and CSS, no script, nothing
+ * fetched): the report of a solve or a score with its proofs, tables and, when
+ * l is non-NULL, its pictures.  0, or -1 on a write error. */
+int bc_report_html_solve(FILE *f, const bc_model *m, const bc_layout *l, const bc_solution *sol,
+                         const bc_proof_result *pr, int32_t show);
+int bc_report_html_score(FILE *f, const bc_model *m, const bc_layout *l, const bc_score *s,
+                         const bc_gate *gates, int n_gates, int32_t top);
 
 #ifdef __cplusplus
 }

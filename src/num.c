@@ -717,3 +717,14 @@ int bc_num_write(FILE *f, bc_num x, const bc_bigtab *big)
     free(s);
     return rc;
 }
+
+char *bc_mpq_text(const mpq_t x)
+{
+    /* GMP allocates with its own functions; hand the caller a malloc'ed copy. */
+    char *s = mpq_get_str(NULL, 10, x), *copy = s ? strdup(s) : NULL;
+    void (*release)(void *, size_t);
+    mp_get_memory_functions(NULL, NULL, &release);
+    if (s)
+        release(s, strlen(s) + 1);
+    return copy;
+}

@@ -40,9 +40,7 @@ void bc__proof_json(bc_jw *w, const char *key, bc_proof p)
 
 void bc__mpq_json(bc_jw *w, const char *key, const mpq_t x)
 {
-    char *s = mpq_get_str(NULL, 10, x); /* lowest terms; integers without "/1" */
-    bc_jw_string(w, key, s);
-    void (*release)(void *, size_t);
-    mp_get_memory_functions(NULL, NULL, &release);
-    release(s, strlen(s) + 1);
+    char *s = bc_mpq_text(x); /* lowest terms; integers without "/1" */
+    bc_jw_string(w, key, s);  /* NULL (out of memory) writes null */
+    free(s);
 }
