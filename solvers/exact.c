@@ -269,6 +269,7 @@ static int evaluate(const bc_model *m, int sgn, const mpq_t g, const policy_ref 
     bc__qsys A = {0};
     int32_t n = 0, bad = -1;
     int rc = -1;
+    const double t0 = bc__exact_now();
     *fill = 0;
     if (!sys_of || !state_of)
         goto out;
@@ -286,9 +287,13 @@ static int evaluate(const bc_model *m, int sgn, const mpq_t g, const policy_ref 
             mpq_swap(v[state_of[i]], x[i]);
         rc = 0;
     } else if (st == BC__QSYS_TOO_BIG) {
-        snprintf(why, cap, "exact evaluation refused: %d equations fill in beyond the sparse "
-                 "budget and exceed the dense limit of %d (or the time limit)", (int)n,
-                 (int)(o->max_dense ? o->max_dense : BC_EXACT_DEFAULT_DENSE));
+        if (o->max_seconds > 0 && bc__exact_now() - t0 > o->max_seconds)
+            snprintf(why, cap, "exact evaluation of %d equations stopped at its time limit "
+                     "(%g s); --proof exact has none", (int)n, o->max_seconds);
+        else
+            snprintf(why, cap, "exact evaluation refused: %d equations fill in beyond the "
+                     "sparse budget and exceed the dense limit of %d", (int)n,
+                     (int)(o->max_dense ? o->max_dense : BC_EXACT_DEFAULT_DENSE));
         rc = 1;
     } else if (st == BC__QSYS_SINGULAR) {
         char lb[32];

@@ -327,7 +327,7 @@ int bc__qsys_solve(const bc__qsys *A, mpq_t *x, int64_t max_fill, double max_sec
         if (st == BC__QSYS_SINGULAR)
             *bad_row = perm[k];
         else if (st == BC__QSYS_OK && (u.len > max_fill ||
-                                       (max_seconds > 0 && (k & 63) == 63 &&
+                                       (max_seconds > 0 &&
                                         bc__exact_now() - t0 > max_seconds)))
             st = BC__QSYS_TOO_BIG;
     }

@@ -371,6 +371,27 @@ void bc__interval_qtable(const bc_model *m, const bc__enclosure *e, double glo, 
     *res_lo = rl, *res_hi = rh, *err_lo = el, *err_hi = eh;
 }
 
+double bc__interval_policy_drop(const bc_model *m, const bc__enclosure *e, const int64_t *pi,
+                                const double *N)
+{
+    int old = fegetround();
+    fesetround(FE_DOWNWARD);
+    double cmin = INFINITY;
+    for (int32_t s = 0; s < m->n_states; s++) {
+        if (m->terminal[s])
+            continue;
+        double neg_sum = 0.0; /* - upper(sum P N) */
+        for (int64_t t = m->pair_trans_start[pi[s]]; t < m->pair_trans_start[pi[s] + 1]; t++) {
+            double x = N[m->succ_state[t]];
+            neg_sum += (-(x >= 0 ? e->phi[t] : e->plo[t])) * x;
+        }
+        double drop = N[s] + neg_sum;
+        cmin = drop < cmin ? drop : cmin;
+    }
+    fesetround(old);
+    return cmin;
+}
+
 /* --- finite horizon -------------------------------------------------------- */
 
 /* One stage: [lo, hi] of max over pairs (all pairs when pol is NULL, else

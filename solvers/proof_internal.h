@@ -72,6 +72,11 @@ void bc__interval_qtable(const bc_model *m, const bc__enclosure *e, double glo, 
                          const double *vlo, const double *vhi, double *res_lo, double *res_hi,
                          double *err_lo, double *err_hi);
 
+/* Discount 1: a lower bound on min over non-terminal s of
+ * N(s) - sum_t P(t | pi(s)) N(t) (terminal states have N = 0). */
+double bc__interval_policy_drop(const bc_model *m, const bc__enclosure *e, const int64_t *pi,
+                                const double *N);
+
 /* Finite horizon: proven enclosures [lo, hi] of V*_0 and [plo, phi] of the
  * stage policy's value at stage 0 (stage_policy as in bc_solution).  Arrays
  * are [n_states]; 0, or -1 if out of memory or a value is not finite. */

@@ -28,6 +28,8 @@
 #define BC_PROVE_EXACT_MAX_TRANS 5000
 /* Auto at discount 1 above that size: dense lifting up to this many states (about a minute, measured). */
 #define BC_PROVE_UNDISCOUNTED_DENSE 1500
+/* ... and sparse elimination for at most this long (`--proof exact` has no limit). */
+#define BC_PROVE_UNDISCOUNTED_SECONDS 20
 
 const char *bc_proof_kind_name(bc_proof_kind k)
 {
@@ -198,23 +200,124 @@ static int prove_interval_horizon(const bc_model *m, const bc_solution *sol, int
     return rc;
 }
 
+/* N = expected steps to termination under pi: (I - P_pi) N = 1, in floating
+ * point (the same sparse LU as policy iteration); 0, or -1. */
+static int expected_steps(const bc_model *m, const int64_t *pi, double *N)
+{
+    size_t n = (size_t)(m->n_states ? m->n_states : 1);
+    double *prob = calloc((size_t)(m->n_pairs ? m->n_pairs : 1), sizeof *prob);
+    double *ones = malloc(n * sizeof *ones);
+    bc_sv_eval *w = bc_sv_eval_new(m, NULL, 1);
+    char why[256];
+    int rc = -1;
+    if (prob && ones && w) {
+        for (int32_t s = 0; s < m->n_states; s++) {
+            ones[s] = 1.0;
+            if (pi[s] >= 0)
+                prob[pi[s]] = 1.0;
+        }
+        if (bc_sv_eval_factorise(m, w, prob, why, sizeof why) == BC_SOLVE_OK &&
+            bc_sv_eval_solve(m, w, 0, ones, N) == 0)
+            rc = 0;
+    }
+    bc_sv_eval_free(w);
+    free(prob), free(ones);
+    return rc;
+}
+
+/* Discount 1 (no contraction).  With pi terminating and N its expected
+ * steps, a proven c > 0 with (I - P_pi) N >= c makes (I - P_pi)^{-1} 1 <= N/c
+ * ((I - P_pi)^{-1} is non-negative).  Then
+ *   V^pi - v = (I - P_pi)^{-1} (T_pi v - v) >= pmin N / c   (pmin <= 0), and
+ *   W = v + eps N with T W <= W (checked by an interval pass) bounds every
+ *   terminating policy's value from above (W >= T_mu W, iterate), so V* <= W.
+ * eps starts at what pi's own residual needs (pmax / c) and grows a few
+ * times; the check fails where another action ties with pi's but leads to
+ * states with more expected steps, and the proof is then "none". */
+static int prove_interval_undiscounted(const bc_model *m, const bc_solution *sol, int sgn,
+                                       const bc__enclosure *e, bc_proof_result *out)
+{
+    size_t n = (size_t)(m->n_states ? m->n_states : 1);
+    double *v = malloc(n * sizeof *v), *N = malloc(n * sizeof *N), *W = malloc(n * sizeof *W);
+    double *margin = malloc(n * sizeof *margin);
+    int32_t bad = -1;
+    int rc = -1;
+    if (!v || !N || !W || !margin)
+        goto done;
+    rc = 1;
+    snprintf(out->message, sizeof out->message, "interval proof at discount 1: the policy does "
+             "not terminate, or its expected steps cannot be had");
+    if (bc_sv_policy_proper(m, sol->policy, NULL, &bad) != 0 || expected_steps(m, sol->policy, N) < 0)
+        goto done;
+    for (int32_t s = 0; s < m->n_states; s++)
+        v[s] = sgn * sol->values[s];
+    bc__interval_pass ps;
+    double c = bc__interval_policy_drop(m, e, sol->policy, N);
+    if (!(c > 0) || bc__interval_check(m, e, v, sol->policy, margin, &ps) < 0)
+        goto done;
+    double nmax = 0;
+    for (int32_t s = 0; s < m->n_states; s++)
+        nmax = fmax(nmax, N[s]);
+    double low = ps.pmin < 0 ? nextafter(-ps.pmin / c, INFINITY) : 0.0; /* v - V^pi <= low N */
+    double eps = ps.pmax > 0 ? nextafter(ps.pmax / c, INFINITY) : 0.0;
+    int held = 0;
+    for (int k = 0; k < 6 && !held; k++, eps = eps > 0 ? eps * 8 : 1e-300) {
+        for (int32_t s = 0; s < m->n_states; s++)
+            W[s] = bc__add_up(v[s], nextafter(eps * N[s], INFINITY));
+        bc__interval_pass pw;
+        held = bc__interval_check(m, e, W, sol->policy, NULL, &pw) == 0 && pw.dmax <= 0;
+    }
+    if (!held) {
+        snprintf(out->message, sizeof out->message, "interval proof at discount 1 failed: an "
+                 "action ties with the policy's but takes longer (use --proof exact)");
+        goto done;
+    }
+    double up_bound = 0, low_bound = 0;
+    for (int32_t s = 0; s < m->n_states; s++) {
+        double lo = bc__sub_down(v[s], nextafter(low * N[s], INFINITY));
+        up_bound = fmax(up_bound, bc__sub_up(W[s], v[s]));
+        low_bound = fmax(low_bound, bc__sub_up(v[s], lo));
+        out->lower[s] = sgn > 0 ? lo : -W[s];
+        out->upper[s] = sgn > 0 ? W[s] : -lo;
+    }
+    out->value = (bc_proof){BC_PROOF_INTERVAL, fmax(up_bound, low_bound)};
+    out->initial = out->value;
+    ps.lo = -low_bound, ps.hi = up_bound, ps.plo = -low_bound;
+    out->policy_loss = bc__policy_loss(m, e, margin, &ps, &out->n_proven_optimal,
+                                       &out->n_undecided);
+    out->policy_optimal = out->n_undecided == 0;
+    snprintf(out->message, sizeof out->message,
+             "interval proof at discount 1: V* - v in [%.3g, %.3g] (expected steps up to %.4g); "
+             "policy proven optimal in %d of %d states", -low_bound, up_bound, nmax,
+             (int)out->n_proven_optimal, (int)(out->n_proven_optimal + out->n_undecided));
+    rc = 0;
+done:
+    free(v), free(N), free(W), free(margin);
+    return rc;
+}
+
 static int prove_interval(const bc_model *m, bc_solution *sol, bc_proof_result *out)
 {
     const int sgn = m->objective == BC_MIN ? -1 : 1;
-    if (m->horizon == 0 && m->discount >= 1.0) {
-        proof_none(out, "at discount 1 only the exact proof applies (intervals need a "
-                        "discount below 1 or a horizon), and it was not had");
-        return 0;
-    }
     bc__enclosure e;
     if (bc__enclosure_build(m, sgn, &e) < 0)
         return -1;
-    int rc = m->horizon > 0 ? prove_interval_horizon(m, sol, sgn, &e, out)
-                            : prove_interval_discounted(m, sol, sgn, &e, out);
+    int rc = m->horizon > 0       ? prove_interval_horizon(m, sol, sgn, &e, out)
+             : m->discount >= 1.0 ? prove_interval_undiscounted(m, sol, sgn, &e, out)
+                                  : prove_interval_discounted(m, sol, sgn, &e, out);
     bc__enclosure_free(&e);
     if (rc > 0)
         proof_none(out, out->message);
     return rc < 0 ? -1 : 0;
+}
+
+/* The common end of a proof: the initial value's bound and the time. */
+static int finish(const bc_model *m, const bc_solution *sol, bc_proof_result *out, double t0)
+{
+    if (out->value.kind == BC_PROOF_INTERVAL)
+        out->initial.bound = bc__initial_bound(m, out->lower, out->upper, sol->value_initial);
+    out->seconds = bc__exact_now() - t0;
+    return 0;
 }
 
 int bc_prove_solution(const bc_model *m, bc_solution *sol, const bc_prove_opts *o,
@@ -239,36 +342,42 @@ int bc_prove_solution(const bc_model *m, bc_solution *sol, const bc_prove_opts *
         proof_none(out, "no proof asked for");
         return 0;
     }
-    int rc = 1; /* 1: not proven yet */
+    if (o->mode == BC_PROVE_EXACT)
+        return prove_exact(m, sol, o, out) == 0 ? finish(m, sol, out, t0) : -1;
+    if (o->mode == BC_PROVE_INTERVAL)
+        return prove_interval(m, sol, out) < 0 ? -1 : finish(m, sol, out, t0);
+    /* auto: exact on small models, intervals on large ones; at discount 1,
+     * where the interval proof can fail on ties, exact is the fallback,
+     * within a smaller dense limit and a time limit. */
     char exact_why[256] = "";
-    /* At discount 1 (no horizon) intervals prove nothing, so auto tries the
-     * exact proof at any size: the sparse solver's fill budget and a
-     * smaller dense limit keep that attempt affordable. */
-    int undiscounted = m->horizon == 0 && m->discount >= 1.0;
-    bc_prove_opts eo = *o;
-    if (o->mode == BC_PROVE_AUTO && undiscounted && m->n_trans > o->exact_max_trans &&
-        (eo.exact.max_dense == 0 || eo.exact.max_dense > BC_PROVE_UNDISCOUNTED_DENSE))
-        eo.exact.max_dense = BC_PROVE_UNDISCOUNTED_DENSE;
-    if (o->mode == BC_PROVE_EXACT ||
-        (o->mode == BC_PROVE_AUTO && (m->n_trans <= o->exact_max_trans || undiscounted))) {
-        rc = prove_exact(m, sol, &eo, out);
-        if (rc != 0 && o->mode == BC_PROVE_EXACT)
-            return -1;
+    int rc = 1; /* 1: not proven yet */
+    if (m->n_trans <= o->exact_max_trans) {
+        rc = prove_exact(m, sol, o, out);
         if (rc != 0)
             snprintf(exact_why, sizeof exact_why, "%.200s", out->message);
     }
-    if (rc != 0) {
-        rc = prove_interval(m, sol, out);
-
-        if (exact_why[0] && rc == 0) {
-            size_t len = strlen(out->message);
-            snprintf(out->message + len, sizeof out->message - len, " (%s)", exact_why);
+    if (rc != 0 && prove_interval(m, sol, out) < 0)
+        return -1;
+    int undiscounted = m->horizon == 0 && m->discount >= 1.0;
+    if (rc != 0 && out->value.kind == BC_PROOF_NONE && undiscounted && !exact_why[0]) {
+        bc_prove_opts eo = *o;
+        if (eo.exact.max_dense == 0 || eo.exact.max_dense > BC_PROVE_UNDISCOUNTED_DENSE)
+            eo.exact.max_dense = BC_PROVE_UNDISCOUNTED_DENSE;
+        if (eo.exact.max_seconds == 0 || eo.exact.max_seconds > BC_PROVE_UNDISCOUNTED_SECONDS)
+            eo.exact.max_seconds = BC_PROVE_UNDISCOUNTED_SECONDS;
+        char interval_why[128];
+        snprintf(interval_why, sizeof interval_why, "%.120s", out->message);
+        if (prove_exact(m, sol, &eo, out) != 0) {
+            char both[256];
+            snprintf(both, sizeof both, "%s; %.120s", interval_why, out->message);
+            proof_none(out, both);
         }
     }
-    if (rc == 0 && out->value.kind == BC_PROOF_INTERVAL)
-        out->initial.bound = bc__initial_bound(m, out->lower, out->upper, sol->value_initial);
-    out->seconds = bc__exact_now() - t0;
-    return rc;
+    if (exact_why[0] && out->value.kind != BC_PROOF_EXACT) {
+        size_t len = strlen(out->message);
+        snprintf(out->message + len, sizeof out->message - len, " (%s)", exact_why);
+    }
+    return finish(m, sol, out, t0);
 }
 
 bc_solve_status bc_solve_exact(const bc_model *m, const bc_solve_opts *o, bc_solution *sol)

@@ -17,8 +17,8 @@ static const char certify_help[] =
     "  --proof P          auto (default: exact when the model is small enough, else\n"
     "                     interval), exact or interval\n"
     "  --max-seconds S    limit on the solve and on the exact proof\n\n"
-    "Models with a horizon are refused (exit 2); at discount 1 a model beyond the exact\n"
-    "proof's reach cannot be certified (exit 3).  A certificate covers the model as written, not the physical\n"
+    "Models with a horizon are refused (exit 2); at discount 1 certificates are exact,\n"
+    "and a model beyond the exact proof's reach cannot be certified (exit 3).  A certificate covers the model as written, not the physical\n"
     "system it describes.\n\n" BC_CLI_COMMON_HELP;
 
 static const char verify_help[] =
@@ -135,6 +135,12 @@ int bc_cli_certify(int argc, char **argv)
     if (!m)
         return BC_EXIT_USAGE;
     int rc = bc_cli_model_usable(m, argv[optind]);
+    if (rc > 0 && m->horizon == 0 && m->discount >= 1.0 && po.mode == BC_PROVE_INTERVAL) {
+        bc_cli_usage_error("certify", "at discount 1 certificates are exact: drop --proof interval");
+        rc = 0;
+    }
+    if (rc > 0 && m->horizon == 0 && m->discount >= 1.0)
+        po.mode = BC_PROVE_EXACT; /* verify checks discount-1 certificates exactly only */
     if (rc > 0 && m->horizon > 0) {
         fprintf(stderr, "bellcheck certify: models with a horizon are not certified: checking "
                         "one costs as much as solving it (use solve --method exact)\n");

@@ -4,6 +4,7 @@
 
 #include <math.h>
 #include <stdlib.h>
+#include <string.h>
 
 static const char *method_long(bc_method m)
 {
@@ -53,9 +54,10 @@ static void proof_text(FILE *f, const bc_model *m, const bc_proof_result *pr)
         fprintf(f, "  %s\n", pr->message);
     if (pr->has_exact && m->n_states <= 20)
         for (int32_t s = 0; s < m->n_states; s++) {
-            fprintf(f, "  V*(%s) = ", bc_names_get(m->state_names, s));
-            mpq_out_str(f, 10, pr->exact.values[s]);
-            fputc('\n', f);
+            char *x = bc_mpq_text(pr->exact.values[s]);
+            if (x && strlen(x) <= 60)
+                fprintf(f, "  V*(%s) = %s\n", bc_names_get(m->state_names, s), x);
+            free(x);
         }
 }
 
@@ -77,8 +79,12 @@ int bc_report_solve_text(FILE *f, const bc_model *m, const bc_solution *sol,
     fputs("optimal value at the initial distribution: ", f);
     bc__value_text(f, sol->value_initial, pr ? pr->initial : (bc_proof){BC_PROOF_NONE, sol->bound});
     if (pr && pr->has_exact) {
-        fputs(" = ", f);
-        mpq_out_str(f, 10, pr->exact.value_initial);
+        char *x = bc_mpq_text(pr->exact.value_initial);
+        if (x && strlen(x) <= 60)
+            fprintf(f, " = %s", x);
+        else if (x)
+            fprintf(f, " (a fraction of %zu characters: see --json)", strlen(x));
+        free(x);
     }
     fputc('\n', f);
     proof_text(f, m, pr);
