@@ -57,3 +57,24 @@ for model in "$MODELS"/*.bell "$TMP"/garnet-*.bell; do
     "$PY" "$CHECK" enclose "$name $method" "$out" "$TMP/x.json"
   done
 done
+
+# Discount 1: the interval proof through expected steps (docs/methods.md) must
+# also enclose the exact optimum wherever it succeeds; the gambler's problem
+# (Sutton & Barto 2018, Example 4.3) and the demo drone model must get one.
+for model in "$MODELS"/*.bell; do
+  grep -q '^discount 1 *$' "$model" || continue
+  name=$(basename "$model" .bell)
+  bc solve "$model" --method exact --json -
+  [ "$status" -eq 0 ] || { fail "$name exact" "exit $status"; continue; }
+  cp "$out" "$TMP/x.json"
+  bc solve "$model" --method pi --proof interval --json -
+  expect_status "$name discount-1 interval exit" 0
+  kind=$("$PY" -c "import json,sys; print(json.load(open(sys.argv[1]))['proof']['kind'])" "$out")
+  case "$name" in
+    sutton-barto-4.3-gambler|demo-yard-drone)
+      [ "$kind" = interval ] && pass "$name gets a discount-1 interval proof" || fail "$name gets a discount-1 interval proof" "kind $kind";;
+  esac
+  if [ "$kind" = interval ]; then
+    "$PY" "$CHECK" enclose "$name discount 1" "$out" "$TMP/x.json"
+  fi
+done
