@@ -75,6 +75,11 @@ $(BUILD)/bench/formula_speed: tests/bench/formula_speed.c $(BUILD)/libbellcheck.
 	@mkdir -p $(dir $@)
 	$(CC) $(CPPFLAGS_ALL) $(CFLAGS) $(WARN) -o $@ $< $(BUILD)/libbellcheck.a $(LIBS) $(LDFLAGS)
 
+# The example pipeline's learner (models/rover-pipeline): plain C on the library's task API.
+$(BUILD)/models/rover-qlearn: models/rover-pipeline/qlearn.c $(BUILD)/libbellcheck.a
+	@mkdir -p $(dir $@)
+	$(CC) $(CPPFLAGS_ALL) $(CFLAGS) $(WARN) -o $@ $< $(BUILD)/libbellcheck.a $(LIBS) $(LDFLAGS)
+
 test: deps-test
 	@$(MAKE) --no-print-directory $(BUILD)/bellcheck $(UNIT_BIN) $(BUILD)/bench/garnet $(BUILD)/bench/gridworld
 	@tests/run.sh
@@ -85,6 +90,7 @@ test: deps-test
 bench: deps-test
 	@$(MAKE) --no-print-directory $(BUILD)/bellcheck $(BENCH_BIN)
 	@BUILD=$(BUILD) /usr/bin/python3 tests/bench/run.py
+	@BUILD=$(BUILD) /usr/bin/python3 tests/bench/proofs.py
 
 test-sanitize: deps-test
 	@$(MAKE) --no-print-directory BUILD=$(SAN_BUILD) CFLAGS="-O1 -g $(SAN_FLAGS)" \
@@ -109,7 +115,7 @@ fuzz:
 	@tests/fuzz/run.sh $(FUZZ_BUILD) $(FUZZ_SECONDS) $(FUZZ_TARGETS)
 
 demo: deps
-	@$(MAKE) --no-print-directory $(BUILD)/bellcheck
+	@$(MAKE) --no-print-directory $(BUILD)/bellcheck $(BUILD)/models/rover-qlearn
 	@tests/demo.sh
 
 install: $(BUILD)/bellcheck
