@@ -78,3 +78,14 @@ for model in "$MODELS"/*.bell; do
     "$PY" "$CHECK" enclose "$name discount 1" "$out" "$TMP/x.json"
   fi
 done
+
+# A finite horizon with costs (objective min), by hand: at t, action b costs
+# 0.1 and stays; over 3 stages V(t) = 0.1 + 0.9 (0.1 + 0.9 * 0.1) = 0.271
+# (action a, cost 2, is never better).  The interval proof encloses it.
+printf 'bell 1\ndiscount 0.9\nobjective min\nhorizon 3\nstates s t u\nactions a b\nterminal u\ns a 1 -> s 1/3 t 2/3\ns b 0.7 -> t 0.1 u 0.9\nt a 2 -> s 0.5 u 0.5\nt b 0.1 -> t\n' >"$TMP/h.bell"
+bc solve "$TMP/h.bell" --method exact --json -
+expect_status "min horizon exact exit" 0
+cp "$out" "$TMP/hx.json"
+expect_in "min horizon V(t) = 271/1000 (by hand)" "$TMP/hx.json" '"t": "271/1000"'
+bc solve "$TMP/h.bell" --proof interval --json -
+"$PY" "$CHECK" enclose "min horizon" "$out" "$TMP/hx.json"
