@@ -31,7 +31,7 @@ FUZZ_SECONDS ?= 20
 FUZZ_TARGETS ?=
 FUZZ_HARNESS := $(patsubst tests/fuzz/%.c,$(BUILD)/fuzz/%,$(wildcard tests/fuzz/fuzz_*.c))
 
-.PHONY: all deps deps-test test demo install clean bench test-sanitize test-valgrind fuzz fuzz-harnesses
+.PHONY: all deps deps-test test test-binaries demo install clean bench test-sanitize test-valgrind fuzz fuzz-harnesses test-browser
 
 all: $(BUILD)/bellcheck
 
@@ -80,8 +80,12 @@ $(BUILD)/models/rover-qlearn: models/rover-pipeline/qlearn.c $(BUILD)/libbellche
 	@mkdir -p $(dir $@)
 	$(CC) $(CPPFLAGS_ALL) $(CFLAGS) $(WARN) -o $@ $< $(BUILD)/libbellcheck.a $(LIBS) $(LDFLAGS)
 
+# Everything tests/run.sh needs, in $(BUILD) (also build-asan/ for test-sanitize).
+TEST_BIN = $(BUILD)/bellcheck $(UNIT_BIN) $(BUILD)/bench/garnet $(BUILD)/bench/gridworld
+test-binaries: $(TEST_BIN)
+
 test: deps-test
-	@$(MAKE) --no-print-directory $(BUILD)/bellcheck $(UNIT_BIN) $(BUILD)/bench/garnet $(BUILD)/bench/gridworld
+	@$(MAKE) --no-print-directory test-binaries
 	@tests/run.sh
 
 # One run of the benchmark (tests/bench/run.py): table on stdout and in
@@ -93,14 +97,19 @@ bench: deps-test
 	@BUILD=$(BUILD) /usr/bin/python3 tests/bench/proofs.py
 
 test-sanitize: deps-test
-	@$(MAKE) --no-print-directory BUILD=$(SAN_BUILD) CFLAGS="-O1 -g $(SAN_FLAGS)" \
-	  $(SAN_BUILD)/bellcheck $(UNIT_SRC:tests/unit/%.c=$(SAN_BUILD)/tests/%)
+	@$(MAKE) --no-print-directory BUILD=$(SAN_BUILD) CFLAGS="-O1 -g $(SAN_FLAGS)" test-binaries
 	@tests/memcheck.sh sanitize $(SAN_BUILD) "$(SAN_FLAGS)"
 
 test-valgrind:
 	@build-aux/deps.sh valgrind
-	@$(MAKE) --no-print-directory $(BUILD)/bellcheck $(UNIT_BIN)
+	@$(MAKE) --no-print-directory test-binaries
 	@tests/memcheck.sh valgrind $(BUILD)
+
+# The HTML reports rendered by Debian's headless chromium, screenshots checked (tests/browser/).
+test-browser:
+	@build-aux/deps.sh browser
+	@$(MAKE) --no-print-directory $(BUILD)/bellcheck
+	@BELLCHECK=$(BUILD)/bellcheck tests/browser/run.sh
 
 $(BUILD)/fuzz/%: tests/fuzz/%.c tests/fuzz/fuzz.h $(wildcard tests/unit/*.h) $(BUILD)/libbellcheck.a
 	@mkdir -p $(dir $@)

@@ -1,18 +1,20 @@
 #!/bin/sh
 # deps.sh — makes sure the Debian packages bellcheck builds and tests with are installed.
-# Usage: deps.sh build|test|fuzz|valgrind.  As root on a Debian-like system, installs what is
+# Usage: deps.sh build|test|fuzz|valgrind|browser.  As root on a Debian-like system, installs what is
 # missing with apt-get; otherwise prints the exact command to run and fails.
 set -u
 need_build="libglpk-dev libgmp-dev libcjson-dev libsuitesparse-dev nettle-dev libflint-dev pkg-config"
-need_test="python3-numpy python3-scipy"
+need_test="python3-numpy python3-scipy libxml2-utils" # libxml2-utils: xmllint checks the SVG and HTML
 need_fuzz="clang libclang-rt-14-dev libomp-14-dev" # `make fuzz` only: libFuzzer, clang's sanitizers and OpenMP
 need_valgrind="valgrind"               # `make test-valgrind` only
+need_browser="chromium fonts-dejavu-core" # `make test-browser` only: renders the HTML report
 case "${1:-build}" in
   build) pkgs="$need_build" ;;
   test)  pkgs="$need_build $need_test" ;;
   fuzz)  pkgs="$need_build $need_test $need_fuzz" ;;
   valgrind) pkgs="$need_build $need_test $need_valgrind" ;;
-  *) echo "deps.sh: usage: deps.sh build|test|fuzz|valgrind" >&2; exit 2 ;;
+  browser) pkgs="$need_build $need_test $need_browser" ;;
+  *) echo "deps.sh: usage: deps.sh build|test|fuzz|valgrind|browser" >&2; exit 2 ;;
 esac
 missing=""
 if command -v dpkg-query >/dev/null 2>&1; then

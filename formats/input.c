@@ -9,34 +9,50 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
-/* Reads everything from fd into a growing buffer.  Returns 0, -1 (errno
- * set), or -2 when the buffer would grow past max bytes (0 = no limit). */
+/* 1 when fd is at its end (one byte is read to find out); -1 on a read error. */
+static int at_end(int fd)
+{
+    char probe;
+    ssize_t got;
+    while ((got = read(fd, &probe, 1)) < 0 && errno == EINTR)
+        ;
+    return got < 0 ? -1 : got == 0;
+}
+
+/* Reads everything from fd into a growing buffer (one byte more for a final
+ * NUL).  Returns 0, -1 (errno set), or -2 when the buffer would need more
+ * than max bytes (0 = no limit). */
 static int read_all(int fd, size_t hint, uint64_t max, char **buf, size_t *len)
 {
+    /* A regular file fits with a byte to spare, so its end is seen without growing. */
     size_t cap = hint + 1 > 65536 ? hint + 1 : 65536, n = 0;
-    if (max && cap + 1 > max)
+    if (max && cap >= max)
         cap = max > 1 ? (size_t)max - 1 : 1;
     char *p = malloc(cap + 1);
     if (!p)
         return -1;
     for (;;) {
         if (n == cap) {
-            if (max && 2 * (uint64_t)cap + 1 > max) {
+            /* Double, but never past max; when no growth is allowed the input must end here. */
+            size_t grown = cap > SIZE_MAX / 2 - 1 ? cap : 2 * cap;
+            if (max && grown + 1 > max)
+                grown = max - 1 > cap ? (size_t)max - 1 : cap;
+            if (grown == cap) {
+                int end = at_end(fd);
+                if (end == 1)
+                    break;
                 free(p);
-                return -2;
+                if (end == 0 && !max)
+                    errno = ENOMEM;
+                return end < 0 || !max ? -1 : -2;
             }
-            if (cap > SIZE_MAX / 2 - 1) {
-                free(p);
-                errno = ENOMEM;
-                return -1;
-            }
-            char *q = realloc(p, 2 * cap + 1);
+            char *q = realloc(p, grown + 1);
             if (!q) {
                 free(p);
                 return -1;
             }
             p = q;
-            cap *= 2;
+            cap = grown;
         }
         ssize_t got = read(fd, p + n, cap - n);
         if (got < 0) {

@@ -80,7 +80,9 @@ void bc_solution_free(bc_solution *sol)
  * successors) on the development machine, where the LU fill of random
  * transition graphs makes policy iteration 50-300 times slower than value
  * iteration; grid-like models have little fill and favour policy iteration.
- * Issue 6's benchmarks will tune them. */
+ * Only models of at most BC_SV_SMALL_MODEL states are priced this way (see
+ * bc_solve_auto_method); the count of sweeps is that of the plain stopping
+ * rule, pessimistic for the MacQueen-Porteus one, which favours pi there. */
 static int pi_not_dearer(const bc_model *m)
 {
     double flops = bc_sv_pi_lu_flops(m);

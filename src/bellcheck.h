@@ -853,8 +853,9 @@ typedef struct {
 } bc_layout;
 
 /* The layout of m = bc_grid_model(t, o) on the plane `slice` ("x,v": variable
- * names, across then up; one name: a strip; NULL: the first two variables).
- * 0, or -1 with why[] set (unknown or repeated variable, m not t's grid, out of memory). */
+ * names, across then up; one name: a strip; NULL: the first two variables);
+ * m NULL: state c is cell c, unchecked.  0, or -1 with why[] set (unknown or
+ * repeated variable, m not t's grid, out of memory). */
 int bc_layout_task(bc_layout *l, const bc_task *t, const bc_grid_opts *o, const bc_model *m,
                    const char *slice, char *why, size_t cap);
 /* The layout read from state names in which letters and whole numbers alternate
@@ -876,10 +877,11 @@ int bc_svg_value_map(FILE *f, const bc_model *m, const bc_layout *l, const doubl
  * policy and loses value marked and shaded by their regret; traps outlined. */
 int bc_svg_agent_map(FILE *f, const bc_model *m, const bc_layout *l, const bc_score *s,
                      const char *title);
-/* One simulated trajectory: len points of l->n_vars values each, in the task's units. */
+/* One simulated trajectory: n_points states of l->n_vars values each, in the
+ * task's units (a bc_trajectory's x and n_points). */
 typedef struct {
     const double *x;
-    int32_t len;
+    int64_t n_points;
 } bc_path;
 /* Trajectories drawn over the plane of l (policy non-NULL: over its map, faded). */
 int bc_svg_trajectories(FILE *f, const bc_model *m, const bc_layout *l, const int64_t *policy,
@@ -935,6 +937,161 @@ int bc_report_html_solve(FILE *f, const bc_model *m, const bc_layout *l, const b
                          const bc_proof_result *pr, int32_t show);
 int bc_report_html_score(FILE *f, const bc_model *m, const bc_layout *l, const bc_score *s,
                          const bc_gate *gates, int n_gates, int32_t top);
+
+/* ------------------------------------------------------------------------ */
+/* Simulating a grid's controller in the task, and grid refinement          */
+/* (solvers/rollout*.c, solvers/refine.c; docs/methods.md, "Simulation")    */
+/* ------------------------------------------------------------------------ */
+
+/* A controller of a task laid on a grid: the action in each cell, or for a
+ * stochastic policy the cumulative probabilities of the task's actions. */
+typedef struct {
+    bc_grid grid;
+    bc_scheme scheme;  /* of the grid model it was read from (for reports) */
+    int32_t n_actions; /* the task's actions (a grid model's action a is the task's action a) */
+    int32_t *action;   /* [n_cells] the action in each cell; NULL when stochastic */
+    double *cum;       /* [n_cells * n_actions] cumulative probabilities; NULL when deterministic */
+} bc_grid_policy;
+
+/* From a Q-table over m = bc_grid_model(t, o): the best Q in the objective's
+ * sense, the first action on exact ties.  0, or -1 after reporting in d. */
+int bc_grid_policy_from_q(bc_grid_policy *gp, const bc_task *t, const bc_grid_opts *o,
+                          const bc_model *m, const bc_qtable *q, bc_diag *d);
+/* From a policy over m (deterministic or stochastic).  0, or -1 after reporting. */
+int bc_grid_policy_from_policy(bc_grid_policy *gp, const bc_task *t, const bc_grid_opts *o,
+                               const bc_model *m, const bc_policy *p, bc_diag *d);
+/* From one pair per state of m (a solution's policy).  0, or -1 after reporting. */
+int bc_grid_policy_from_pairs(bc_grid_policy *gp, const bc_task *t, const bc_grid_opts *o,
+                              const bc_model *m, const int64_t *pair, bc_diag *d);
+void bc_grid_policy_free(bc_grid_policy *gp); /* frees the arrays; gp can be filled again */
+
+typedef struct {
+    int64_t episodes; /* default 1000 */
+    uint64_t seed;    /* episode e draws from its own stream, a function of (seed, e) alone */
+    int threads;      /* default 1; the results do not depend on it */
+    int64_t limit;    /* steps per episode; 0 = the task's `limit` */
+} bc_rollout_opts;
+
+void bc_rollout_opts_default(bc_rollout_opts *o);
+
+/* Mean of a sample with its 95% confidence interval mean +- t(0.975, n-1) sd / sqrt(n). */
+typedef struct {
+    int64_t n;
+    double mean;
+    double sd;               /* sample standard deviation (divisor n - 1); NAN when n < 2 */
+    double ci_low, ci_high;  /* NAN when n < 2 */
+} bc_sample_stats;
+
+/* Student's t quantile t(p, df) for 0.5 <= p < 1, df >= 1. */
+double bc_t_quantile(double p, double df);
+
+/* What a rollout measured.  Returns are discounted sums of the task's
+ * rewards in its own sign (costs for objective min). */
+typedef struct {
+    int64_t episodes, limit;
+    bc_sample_stats ret;       /* return per episode */
+    int64_t successes;         /* episodes that stopped within the limit */
+    double success_rate;
+    double steps_mean;         /* steps per episode (the limit for episodes that did not stop) */
+    int64_t steps_min, steps_p10, steps_p50, steps_p90, steps_max; /* nearest-rank percentiles */
+    int has_against;           /* a second policy ran on the same start states and noise */
+    bc_sample_stats against_ret;
+    int64_t against_successes;
+    double against_success_rate, against_steps_mean;
+    bc_sample_stats regret;    /* per episode: against's return minus the agent's, in the objective's direction */
+    double seconds;
+    char message[512];         /* on failure: the episode, step and formula */
+} bc_rollout_result;
+
+/* Simulates agent (and against, if not NULL, on the same start states and
+ * noise) from the task's initial distribution.  Same options, same results,
+ * whatever o->threads.  0; -1 when a step failed (message names the episode,
+ * the step and the formula); -2 for bad options or out of memory (message). */
+int bc_rollout(const bc_task *t, const bc_grid_policy *agent, const bc_grid_policy *against,
+               const bc_rollout_opts *o, bc_rollout_result *r);
+
+/* One simulated episode, recorded. */
+typedef struct {
+    int64_t n_points;  /* states recorded, the initial one first */
+    double *x;         /* [n_points * n_vars] */
+    int32_t *action;   /* [n_points - 1] the action taken at each step */
+    double ret;        /* its return (up to where it was recorded) */
+    int stopped;       /* 1 when the episode stopped */
+    int truncated;     /* 1 when max_points cut the record short */
+} bc_trajectory;
+
+/* Episodes 0..k-1 of bc_rollout(t, gp, NULL, o) (the same draws), each recorded
+ * up to max_points states, into out[0..k).  0, or -1 (why[] says). */
+int bc_rollout_trajectories(const bc_task *t, const bc_grid_policy *gp, const bc_rollout_opts *o,
+                            int32_t k, int64_t max_points, bc_trajectory *out, char *why,
+                            size_t cap);
+void bc_trajectories_free(bc_trajectory *tr, int32_t k); /* frees the arrays of tr[0..k) */
+
+/* A grid-refinement study: one grid per level, finest last. */
+typedef struct {
+    bc_solve_opts solve;
+    bc_prove_opts prove;
+    bc_rollout_opts rollout;   /* simulation of each grid's optimal policy */
+    int32_t n_trajectories;    /* sample trajectories kept per grid (0: none) */
+    int64_t max_points;        /* states per kept trajectory */
+} bc_refine_opts;
+
+void bc_refine_opts_default(bc_refine_opts *o); /* auto solve and proof, 1000 episodes, no trajectories */
+
+typedef enum { BC_REFINE_OK = 0, BC_REFINE_UNUSABLE, BC_REFINE_SOLVER, BC_REFINE_SIMULATION } bc_refine_status;
+
+typedef struct {
+    bc_grid_opts grid;
+    bc_refine_status status;
+    int32_t n_states;
+    int64_t n_trans;
+    double h;                  /* relative cell size: cells^(-1/variables) */
+    double value;              /* the grid's optimum at its initial distribution */
+    bc_proof value_proof;
+    bc_method method;
+    double seconds;            /* building, solving and proving */
+    double *values;            /* [n_states] V* per state (cells, then `stop`) */
+    bc_grid_policy policy;     /* the optimal action per cell */
+    double difference;         /* value - previous grid's value; NAN for the first */
+    double order;              /* observed order of convergence from the last three grids; NAN */
+    double extrapolated;       /* Richardson estimate from the last three grids; NAN */
+    bc_rollout_result sim;     /* the policy simulated in the task */
+    int has_gain;              /* sim.regret compares with the previous grid's policy */
+    bc_trajectory *trajectories;
+    int32_t n_trajectories;
+    char message[256];         /* why a level failed, or what its proof says */
+} bc_refine_level;
+
+typedef struct {
+    int32_t n_levels;
+    bc_refine_level *level;
+    double extrapolated;       /* the finest grid's Richardson estimate; NAN */
+    char note[256];            /* why there is none, when there is none */
+} bc_refine;
+
+/* Solves, proves and simulates each grid of t.  0 (failed levels carry
+ * their status), or -1 after reporting (a grid that cannot be built). */
+int bc_refine_run(const bc_task *t, const bc_grid_opts *grids, int32_t n, const bc_refine_opts *o,
+                  bc_refine *out, bc_diag *d);
+void bc_refine_free(bc_refine *r);
+
+/* Reports of `rollout` and `refine` (schemas in docs/json-reports.md). */
+int bc_report_rollout_text(FILE *f, const bc_task *t, const bc_rollout_result *r,
+                           const bc_grid_policy *agent, const bc_grid_policy *against,
+                           const bc_rollout_opts *o, const char *source, const char *agent_path);
+int bc_report_rollout_json(FILE *f, const bc_task *t, const bc_rollout_result *r,
+                           const bc_grid_policy *agent, const bc_grid_policy *against,
+                           const bc_rollout_opts *o, const char *source, const char *agent_path);
+int bc_report_refine_text(FILE *f, const bc_task *t, const bc_refine *r, const bc_refine_opts *o,
+                          const char *source);
+int bc_report_refine_json(FILE *f, const bc_task *t, const bc_refine *r, const bc_refine_opts *o,
+                          const char *source);
+/* The pictures of a refinement study into dir, as bc_svg_write_dir does:
+ * convergence.svg (the solved grids' values against h, and their changes on
+ * log-log axes) and, when the finest solved grid kept trajectories,
+ * trajectories.svg over the plane `slice` of that grid (docs/pictures.md).  0 or -1. */
+int bc_report_svg_refine(const char *dir, const bc_task *t, const bc_refine *r, const char *slice,
+                         bc_diag *d);
 
 #ifdef __cplusplus
 }

@@ -24,6 +24,8 @@ static const command commands[] = {
     {"certify", bc_cli_certify, "write a certificate of the optimum that re-checks without solving"},
     {"verify", bc_cli_verify, "re-check a certificate against its model"},
     {"grid", bc_cli_grid, "build the finite model of a continuous task on a grid of cells"},
+    {"refine", bc_cli_refine, "a task on finer and finer grids: convergence, each policy simulated"},
+    {"rollout", bc_cli_rollout, "simulate a learned agent in a continuous task, with 95% intervals"},
 };
 
 static void usage(FILE *f)

@@ -50,6 +50,8 @@ int bc_cli_score(int argc, char **argv);
 int bc_cli_certify(int argc, char **argv);
 int bc_cli_verify(int argc, char **argv);
 int bc_cli_grid(int argc, char **argv);
+int bc_cli_refine(int argc, char **argv);
+int bc_cli_rollout(int argc, char **argv);
 
 /* TASK inputs (cli_grid.c). */
 /* Handles --cells, --scheme, --samples, --noise-samples; 1, 0 (not one of them) or -1. */

@@ -2,6 +2,7 @@
 /* SPDX-License-Identifier: GPL-3.0-or-later */
 #define _GNU_SOURCE
 #include "cli.h"
+#include "cli_pictures.h"
 
 #include <getopt.h>
 #include <math.h>
@@ -30,7 +31,8 @@ static const char help[] =
     "  --max-regret X      regret at the initial distribution at most X (or X%% of |V*|)\n"
     "  --max-state-regret X   regret of every single state at most X\n"
     "  --max-residual X    Bellman residual of the Q-table at most X\n"
-    "  --min-agreement F   share of states acting optimally at least F (0..1, or N%%)\n\n" BC_CLI_COMMON_HELP;
+    "  --min-agreement F   share of states acting optimally at least F (0..1, or N%%)\n\n"
+    BC_CLI_PICTURES_HELP "\n" BC_CLI_COMMON_HELP;
 
 enum { OPT_Q = OPT_FIRST_COMMAND_OPTION, OPT_POLICY, OPT_MISSING, OPT_TIES, OPT_DISCOUNT,
        OPT_Q_DISCOUNT, OPT_TOP, OPT_MAX_REGRET, OPT_MAX_STATE_REGRET, OPT_MAX_RESIDUAL,
@@ -43,6 +45,7 @@ typedef struct {
     bc_score_opts o;
     long long top;
     bc_gate_limits limits;
+    bc_cli_pictures pic;
 } score_args;
 
 /* "X" or "X%": a non-negative number, *percent set for the second form. */
@@ -113,6 +116,7 @@ static int parse_args(int argc, char **argv, score_args *a)
 {
     static const struct option longopts[] = {
         BC_CLI_COMMON_LONGOPTS,
+        BC_CLI_PICTURES_LONGOPTS,
         {"q", required_argument, NULL, OPT_Q},
         {"policy", required_argument, NULL, OPT_POLICY},
         {"missing", required_argument, NULL, OPT_MISSING},
@@ -134,6 +138,11 @@ static int parse_args(int argc, char **argv, score_args *a)
             return -1;
         }
         int r = bc_cli_common_option(&a->c, id, optarg);
+        if (r < 0)
+            return BC_EXIT_USAGE;
+        if (r > 0)
+            continue;
+        r = bc_cli_pictures_option(&a->pic, "score", id, optarg);
         if (r < 0)
             return BC_EXIT_USAGE;
         if (r > 0)
@@ -229,6 +238,9 @@ static int run(const score_args *a, const bc_model *m, const bc_qtable *q, const
         }
     if (write_json(a, m, &s, gates, n_gates) < 0)
         rc = BC_EXIT_SOLVER;
+    if (rc != BC_EXIT_SOLVER &&
+        bc_cli_pictures_score(&a->pic, m, &s, gates, n_gates, (int32_t)a->top) < 0)
+        rc = BC_EXIT_SOLVER;
     bc_score_free(&s);
     return rc;
 }
@@ -245,12 +257,13 @@ int bc_cli_score(int argc, char **argv)
         return rc < 0 ? BC_EXIT_OK : rc;
     if (bc_cli_grid_from_agent(&a.c, a.path, a.q_path) < 0)
         return BC_EXIT_USAGE;
-    bc_model *m = bc_cli_load_model(a.path, &a.c);
+    bc_model *m = bc_cli_load_pictured(a.path, &a.c, &a.pic, "score");
     if (!m)
         return BC_EXIT_USAGE;
     bc_findings fd;
     if (bc_analyse(m, &fd) < 0) {
         bc_model_free(m);
+        bc_cli_pictures_free(&a.pic);
         return BC_EXIT_SOLVER;
     }
     int usable = !bc_findings_fatal(m, &fd);
@@ -259,6 +272,7 @@ int bc_cli_score(int argc, char **argv)
                                     "agents on infinite-horizon models only", (int)m->horizon);
         bc_findings_free(&fd);
         bc_model_free(m);
+        bc_cli_pictures_free(&a.pic);
         return BC_EXIT_USAGE;
     }
     if (!usable)
@@ -273,5 +287,6 @@ int bc_cli_score(int argc, char **argv)
     bc_qtable_free(q);
     bc_policy_free(p);
     bc_model_free(m);
+    bc_cli_pictures_free(&a.pic);
     return rc;
 }

@@ -2,6 +2,7 @@
 /* SPDX-License-Identifier: GPL-3.0-or-later */
 #define _GNU_SOURCE
 #include "cli.h"
+#include "cli_pictures.h"
 
 #include <getopt.h>
 #include <string.h>
@@ -31,6 +32,7 @@ static const char help[] =
     "  --show N          states listed in the text report (default 10)\n"
     "  --values-out FILE write state,value as CSV\n"
     "  --policy-out FILE write state,action as CSV\n\n"
+    BC_CLI_PICTURES_HELP "\n"
     "A proof covers the model as written, not the physical system it describes.\n\n"
     BC_CLI_COMMON_HELP;
 
@@ -45,12 +47,14 @@ typedef struct {
     bc_prove_opts proof;
     long long show;
     const char *values_out, *policy_out, *path;
+    bc_cli_pictures pic;
 } solve_args;
 
 static int parse_args(int argc, char **argv, solve_args *a)
 {
     static const struct option longopts[] = {
         BC_CLI_COMMON_LONGOPTS,
+        BC_CLI_PICTURES_LONGOPTS,
         {"method", required_argument, NULL, OPT_METHOD},
         {"compare", no_argument, NULL, OPT_COMPARE},
         {"tol", required_argument, NULL, OPT_TOL},
@@ -67,6 +71,11 @@ static int parse_args(int argc, char **argv, solve_args *a)
     opterr = 0;
     while ((id = getopt_long(argc, argv, "", longopts, NULL)) != -1) {
         int r = bc_cli_common_option(&a->c, id, optarg);
+        if (r < 0)
+            return BC_EXIT_USAGE;
+        if (r > 0)
+            continue;
+        r = bc_cli_pictures_option(&a->pic, "solve", id, optarg);
         if (r < 0)
             return BC_EXIT_USAGE;
         if (r > 0)
@@ -117,6 +126,8 @@ static int parse_args(int argc, char **argv, solve_args *a)
         return bc_cli_usage_error("solve", "expected one MODEL argument (see --help)");
     if (a->compare && a->method != BC_METHOD_AUTO)
         return bc_cli_usage_error("solve", "--compare runs every method; do not combine it with --method");
+    if (a->compare && (a->pic.svg_dir || a->pic.html_path))
+        return bc_cli_usage_error("solve", "--svg and --html picture one solve; do not combine them with --compare");
     int json_stdout = a->c.json_path && !strcmp(a->c.json_path, "-");
     if ((a->values_out && !strcmp(a->values_out, "-") && (json_stdout || (a->policy_out && !strcmp(a->policy_out, "-")))) ||
         (a->policy_out && !strcmp(a->policy_out, "-") && json_stdout))
@@ -233,6 +244,9 @@ static int run_one(const solve_args *a, const bc_model *m)
     /* A failed solve writes nothing: its numbers are not an answer. */
     if (st == BC_SOLVE_OK && write_outputs(a, m, &sol, &pr, NULL) < 0)
         rc = BC_EXIT_SOLVER;
+    if (st == BC_SOLVE_OK && rc == BC_EXIT_OK &&
+        bc_cli_pictures_solve(&a->pic, m, &sol, &pr, (int32_t)a->show) < 0)
+        rc = BC_EXIT_SOLVER;
     bc_proof_result_free(&pr);
     bc_solution_free(&sol);
     return rc;
@@ -250,7 +264,7 @@ int bc_cli_solve(int argc, char **argv)
         return rc < 0 ? BC_EXIT_OK : rc;
     if (a.c.threads)
         a.o.threads = a.c.threads;
-    bc_model *m = bc_cli_load_model(a.path, &a.c);
+    bc_model *m = bc_cli_load_pictured(a.path, &a.c, &a.pic, "solve");
     if (!m)
         return BC_EXIT_USAGE;
     int ok = bc_cli_model_usable(m, a.path);
@@ -270,5 +284,6 @@ int bc_cli_solve(int argc, char **argv)
     else
         rc = a.compare ? run_compare(&a, m) : run_one(&a, m);
     bc_model_free(m);
+    bc_cli_pictures_free(&a.pic);
     return rc;
 }

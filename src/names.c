@@ -179,11 +179,6 @@ int32_t bc_names_find(const bc_names *t, const char *s, size_t len)
 
 void bc_names_prefetch(const bc_names *t, const char *s, size_t len, int stage)
 {
-    /* A name that looks like prefix + number is (almost always) in the
-     * dense table, a small array that stays in the cache: no hint needed. */
-    if (t->prefix_len && len > t->prefix_len && s[0] == t->prefix[0] && s[len - 1] >= '0' &&
-        s[len - 1] <= '9')
-        return;
     const int32_t *d = dense_at(t, s, len);
     if (d) {
         if (stage == 0)

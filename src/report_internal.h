@@ -16,4 +16,17 @@ void bc__proof_json(bc_jw *w, const char *key, bc_proof p);
 /* An exact rational as the string "p/q" in lowest terms ("p" for integers). */
 void bc__mpq_json(bc_jw *w, const char *key, const mpq_t x);
 
+/* Simulations (report_rollout.c; shared with report_refine.c). */
+extern const char bc__simulation_note[]; /* what a simulation covers, one sentence */
+void bc__cells_text(int32_t n_dims, const int32_t *cells, char *buf, size_t cap); /* "64x64" */
+/* "mean, 95% CI [lo, hi]" (or a note for one episode). */
+void bc__stats_text(FILE *f, const bc_sample_stats *s);
+/* mean under mean_key and "ci95": [lo, hi] (null for one episode). */
+void bc__stats_json(bc_jw *w, const char *mean_key, const bc_sample_stats *s);
+void bc__grid_json(bc_jw *w, const char *key, const bc_grid_policy *gp); /* {"cells", "scheme"} */
+/* episodes, mean_return, ci95, sd_return, success_rate, successes, steps {...}. */
+void bc__simulation_json(bc_jw *w, const bc_rollout_result *r);
+/* "98.5% of episodes stop within L steps (k of n)". */
+void bc__success_text(FILE *f, int64_t successes, int64_t episodes, int64_t limit);
+
 #endif

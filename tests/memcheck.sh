@@ -17,6 +17,7 @@ build=${2:?usage: memcheck.sh sanitize|valgrind BUILD [FLAGS]}
 case $build in /*) ;; *) build=$PWD/$build ;; esac
 logs=$(mktemp -d "${TMPDIR:-/tmp}/bc-memcheck.XXXXXX") || exit 2
 trap 'rm -rf "$logs"' EXIT
+trap 'exit 130' INT TERM # so that the EXIT trap cleans up after an interrupted run too
 start=$(date +%s)
 case $mode in
   sanitize)

@@ -13,7 +13,9 @@ until ||V' - V||_inf * g / (1 - g) <= tol, which proves ||V' - V*||_inf <= tol
 (the contraction argument, e.g. Puterman 1994, Theorem 6.3.1).  Only the
 iteration loop is timed: reading the arrays and building the matrix are not.
 Prints one line of JSON: seconds, iterations, the value of the initial state,
-whether it converged, and the peak resident memory of this process.
+whether it converged, and the peak resident memory of this process.  When
+--max-seconds stops it first, projected_seconds extrapolates the time to the
+stopping rule from the rate at which the last 200 differences shrank.
 """
 import json
 import resource
@@ -60,7 +62,7 @@ def main(argv):
     starts = spstart[:-1][live]
     stop = tol * (1 - g) / g
     V = np.zeros(n)
-    it, converged = 0, False
+    it, converged, hist = 0, False, []
     t0 = time.perf_counter()
     while True:
         Q = r + g * (P @ V)
@@ -72,6 +74,9 @@ def main(argv):
         diff = np.abs(Vn - V).max()
         V = Vn
         it += 1
+        hist.append(diff)
+        if len(hist) > 200:
+            hist.pop(0)
         if diff <= stop:
             converged = True
             break
@@ -79,7 +84,15 @@ def main(argv):
             break
     seconds = time.perf_counter() - t0
     peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024
+    projected = None
+    if not converged and len(hist) > 1 and hist[-1] < hist[0]:
+        # Stopped by --max-seconds: the differences shrink geometrically; the
+        # iterations still needed follow from the observed rate (a projection).
+        rate = (hist[-1] / hist[0]) ** (1.0 / (len(hist) - 1))
+        more = np.log(stop / diff) / np.log(rate)
+        projected = seconds * (it + more) / it
     print(json.dumps({"seconds": seconds, "iterations": it, "converged": converged,
+                      "projected_seconds": projected,
                       "value_initial": float(V[meta["initial_state"]] * meta["sign"]),
                       "peak_bytes": peak}))
     return 0

@@ -1,7 +1,7 @@
 # bench_garnet.sh — smoke test of the benchmark's Garnet generator (tests/bench/garnet.c): same model as tests/tools/garnet.py, and bellcheck reads it.
 . "$(dirname "$0")/../lib.sh"
 PY=${PY:-/usr/bin/python3}
-GARNET="$(dirname "$BELLCHECK")/bench/garnet"
+GARNET="${BUILD:-$(dirname "$BELLCHECK")}/bench/garnet" # BUILD: exported by tests/run.sh (BELLCHECK may be a wrapper)
 
 if [ ! -x "$GARNET" ]; then
   fail "bench garnet built" "$GARNET missing (make builds it with make test)"

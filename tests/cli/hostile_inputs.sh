@@ -129,6 +129,15 @@ expect_status "--max-memory on a pipe: exit 2" 2
 expect_in "--max-memory on a pipe: names the limit" "$err" "memory limit"
 # 37 bytes of table and 8000 blank lines, plus the final NUL the reader adds: 8038 bytes = 7.8496 KiB, printed 7.8 KiB
 { printf 'state,a11,a12,a21\ns1,1.5,2,\ns2,,,-20\n'; head -c 8000 /dev/zero | tr '\0' '\n'; } >"$TMP/padded.csv"
+# The boundary: a reading holds the file and one byte more (a final NUL).
+size=$(wc -c <"$MODEL")
+cat "$MODEL" | "$BELLCHECK" check - --max-memory $((size + 1)) --quiet >"$TMP/stdout" 2>"$TMP/stderr"; status=$?
+expect_status "--max-memory of the size + 1 on a pipe: accepted" 0
+cat "$MODEL" | "$BELLCHECK" check - --max-memory "$size" --quiet >"$TMP/stdout" 2>"$TMP/stderr"; status=$?
+expect_status "--max-memory of the size on a pipe: refused" 2
+bc check "$MODEL" --max-memory "$size"
+expect_status "--max-memory of the size on a file: refused" 2
+expect_in "--max-memory of the size on a file: needs size + 1" "$err" "needs $((size + 1)) bytes, more than the memory limit of $size bytes"
 bc score "$MODEL" --q "$TMP/padded.csv" --max-memory 4K
 expect_status "--max-memory refuses an agent file over the limit: exit 2" 2
 expect_in "--max-memory refuses an agent file over the limit: names it" "$err" "padded.csv: error: holding the file needs 7.8 KiB"

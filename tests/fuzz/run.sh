@@ -47,6 +47,10 @@ while read -r name harness seeds; do
     found=1
     echo "FUZZ $name: FOUND a problem after ${execs:-?} executions (exit $rc); log $log"
     grep -E '^(==[0-9]+==ERROR|SUMMARY|fuzz: broken promise|.*runtime error)|Test unit written to' "$log" | head -n 8 | sed 's/^/    /'
+    # The input itself, so that a finding in CI (where build-fuzz/ is lost) can be rebuilt with base64 -d.
+    for f in $(sed -n 's/.*Test unit written to //p' "$log"); do
+      [ -f "$f" ] && echo "    input $(basename "$f") (base64): $(head -c 3000 "$f" | base64 -w 0)"
+    done
   else
     echo "FUZZ $name: ${execs:-?} executions in ${seconds}s, corpus $units inputs, nothing found"
   fi

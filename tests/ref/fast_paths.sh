@@ -1,7 +1,7 @@
 # fast_paths.sh — the solvers' paths for large models (Jacobi value iteration with MacQueen-Porteus bounds, hand-over to warm-started policy iteration, threads) against the independent reference solver.
 . "$(dirname "$0")/../lib.sh"
 . "$ROOT/tests/tools/ref_common.sh"
-GRID="$(dirname "$BELLCHECK")/bench/gridworld"
+GRID="${BUILD:-$(dirname "$BELLCHECK")}/bench/gridworld" # BUILD: exported by tests/run.sh (BELLCHECK may be a wrapper)
 
 # A Garnet model beyond the size where auto prices a factorisation (100
 # states): auto runs Jacobi value iteration, which must certify 1e-9 by
