@@ -23,7 +23,11 @@ static const char help[] =
     "  --proof P         how each optimum is proven, as for solve: auto (default), exact,\n"
     "                    interval or off (the figures are then labelled as estimates)\n"
     "  --max-seconds S   limit on each grid's solve and on its exact proof\n"
-    "  --seed N          the simulations' seed; every grid meets the same episodes\n\n"
+    "  --seed N          the simulations' seed; every grid meets the same episodes\n"
+    "  --svg DIR         write convergence.svg (values and changes against cell size)\n"
+    "                    and trajectories.svg (8 simulated episodes over the finest\n"
+    "                    grid) into DIR, all files or none\n"
+    "  --slice X[,Y]     the variables drawn across and up in trajectories.svg\n\n"
     "Exit status 2 when a grid's model is unusable or a simulation step fails, 3 when a\n"
     "solver fails; the report still shows every grid.\n"
     "A simulation measures the task as its formulas describe it, not the physical machine.\n\n"
@@ -31,7 +35,8 @@ static const char help[] =
 
 #define MAX_GRIDS 32
 
-enum { OPT_EPISODES = OPT_FIRST_COMMAND_OPTION, OPT_PROOF, OPT_MAX_SECONDS };
+enum { OPT_EPISODES = OPT_FIRST_COMMAND_OPTION, OPT_PROOF, OPT_MAX_SECONDS, OPT_SVG_DIR,
+       OPT_SLICE_VARS };
 
 typedef struct {
     bc_cli_common c;
@@ -39,6 +44,8 @@ typedef struct {
     bc_grid_opts grids[MAX_GRIDS];
     int32_t n_grids;
     bc_refine_opts o;
+    const char *svg_dir; /* --svg DIR */
+    const char *slice;   /* --slice X[,Y] */
 } refine_args;
 
 /* "16x16,32x32,..." into a->grids; 0, or the exit status after printing. */
@@ -100,6 +107,14 @@ static int command_option(refine_args *a, int id, const char *arg, const char *w
         return 0;
     case OPT_PROOF:
         return bc_cli_prove_mode("refine", arg, &a->o.prove.mode) < 0 ? BC_EXIT_USAGE : 0;
+    case OPT_SVG_DIR:
+        a->svg_dir = arg;
+        if (a->o.n_trajectories == 0)
+            a->o.n_trajectories = 8; /* drawn over the finest grid's plane */
+        return 0;
+    case OPT_SLICE_VARS:
+        a->slice = arg;
+        return 0;
     case OPT_MAX_SECONDS:
         if (bc_cli_double("refine", "--max-seconds", arg, 1e-3, 1e9, &a->o.solve.max_seconds) < 0)
             return BC_EXIT_USAGE;
@@ -117,6 +132,8 @@ static int parse_args(int argc, char **argv, refine_args *a)
         {"episodes", required_argument, NULL, OPT_EPISODES},
         {"proof", required_argument, NULL, OPT_PROOF},
         {"max-seconds", required_argument, NULL, OPT_MAX_SECONDS},
+        {"svg", required_argument, NULL, OPT_SVG_DIR},
+        {"slice", required_argument, NULL, OPT_SLICE_VARS},
         {NULL, 0, NULL, 0}};
     int id;
     opterr = 0;
@@ -212,6 +229,13 @@ int bc_cli_refine(int argc, char **argv)
         rc = study_status(&r);
         if (a.c.json_path && bc_cli_write_file(a.c.json_path, write_json, &x) < 0)
             rc = BC_EXIT_SOLVER;
+        if (a.svg_dir) {
+            bc_diag_init(&d);
+            if (bc_report_svg_refine(a.svg_dir, t, &r, a.slice, &d) < 0)
+                rc = BC_EXIT_SOLVER;
+            bc_diag_print(&d, stderr);
+            bc_diag_free(&d);
+        }
     }
     bc_refine_free(&r);
     bc_task_free(t);

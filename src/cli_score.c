@@ -28,10 +28,10 @@ static const char help[] =
     "  --proof P           auto (default: exact on small models, else intervals), exact,\n"
     "                      interval or off: what stands behind every figure\n"
     "gates (exit 1 when one fails, naming it):\n"
-    "  --max-regret X      regret at the initial distribution at most X (or X%% of |V*|)\n"
+    "  --max-regret X      regret at the initial distribution at most X (or X% of |V*|)\n"
     "  --max-state-regret X   regret of every single state at most X\n"
     "  --max-residual X    Bellman residual of the Q-table at most X\n"
-    "  --min-agreement F   share of states acting optimally at least F (0..1, or N%%)\n\n"
+    "  --min-agreement F   share of states acting optimally at least F (0..1, or N%)\n\n"
     BC_CLI_PICTURES_HELP "\n" BC_CLI_COMMON_HELP;
 
 enum { OPT_Q = OPT_FIRST_COMMAND_OPTION, OPT_POLICY, OPT_MISSING, OPT_TIES, OPT_DISCOUNT,

@@ -208,3 +208,14 @@ printf 'state,action\nx0,go\nx1,go\n' >"$TMP/odd-policy.csv"
 bc score "$TMP/odd.bell" --policy "$TMP/odd-policy.csv" --html "$TMP/odd-score.html" --quiet
 expect_status "odd name: scored with a page" 0
 well_formed "odd name: score page well-formed" "$TMP/odd-score.html"
+
+# --- refine --svg: the convergence plot and trajectories, all or nothing -------------------
+bc refine "$rover" --cells 8x8,16x16 --episodes 20 --svg "$TMP/refine-svg" --quiet
+expect_status "refine --svg exit" 0
+[ -f "$TMP/refine-svg/convergence.svg" ] && [ -f "$TMP/refine-svg/trajectories.svg" ] \
+  && pass "refine --svg writes convergence.svg and trajectories.svg" \
+  || fail "refine --svg writes convergence.svg and trajectories.svg" "$(ls "$TMP/refine-svg" 2>&1)"
+well_formed "refine pictures are well-formed" "$TMP/refine-svg/convergence.svg" "$TMP/refine-svg/trajectories.svg"
+: >"$TMP/not-a-dir"
+bc refine "$rover" --cells 8x8,16x16 --episodes 20 --svg "$TMP/not-a-dir" --quiet
+expect_status "refine --svg into a file is refused" 3
