@@ -125,7 +125,7 @@ fuzz:
 
 demo: deps
 	@$(MAKE) --no-print-directory $(BUILD)/bellcheck $(BUILD)/models/rover-qlearn
-	@tests/demo.sh
+	@BUILD=$(BUILD) tests/demo.sh
 
 install: $(BUILD)/bellcheck
 	install -d $(DESTDIR)$(PREFIX)/bin $(DESTDIR)$(PREFIX)/lib $(DESTDIR)$(PREFIX)/include

@@ -2,9 +2,10 @@
 # demo.sh — the demo: check, solve and cross-check an invented model, grade an invented learned agent, then the rover pipeline (train, grade, simulate, refine).
 set -e
 cd "$(dirname "$0")/.."
-BC=build/bellcheck
+B=${BUILD:-build}
+BC=$B/bellcheck
 MODEL=models/demo-warehouse-robot.bell
-OUT=build/demo
+OUT=$B/demo
 mkdir -p "$OUT"
 echo "== bellcheck check $MODEL"
 $BC check "$MODEL"
@@ -25,9 +26,9 @@ set -e
 [ "$status" -eq 1 ] || { echo "demo: expected the gate to fail (exit 1), got $status" >&2; exit 1; }
 echo
 echo "== the rover pipeline (models/rover-pipeline): a learner, its grade, its simulation"
-echo "== build/models/rover-qlearn models/crater-rover.task 32x32 $OUT/rover-q.npy --episodes 5000 --seed 7"
+echo "== $B/models/rover-qlearn models/crater-rover.task 32x32 $OUT/rover-q.npy --episodes 5000 --seed 7"
 echo "   (tabular Q-learning on a 32x32 grid of the crater rover, learning from the task's own dynamics)"
-build/models/rover-qlearn models/crater-rover.task 32x32 "$OUT/rover-q.npy" --episodes 5000 --seed 7
+"$B/models/rover-qlearn" models/crater-rover.task 32x32 "$OUT/rover-q.npy" --episodes 5000 --seed 7
 echo
 echo "== bellcheck score models/crater-rover.task --q $OUT/rover-q.npy --top 3"
 echo "   (graded against the proven optimum of the 32x32 grid model; the grid comes from the array's shape)"
