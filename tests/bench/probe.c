@@ -6,6 +6,8 @@
  *        probe model FILE [DUMP]      parse and sweep figures of FILE, one line
  *                                     of JSON; with DUMP, the model's arrays as
  *                                     raw files DUMP.* for tests/bench/baseline.py
+ *        probe run RESULT CMD ARGS... runs CMD (a path), writes its wall time,
+ *                                     peak memory and exit status to RESULT
  *
  * The triad a[i] = b[i] + q c[i] is the one of McCalpin's STREAM benchmark
  * (common practice): 24 bytes per element (two reads, one write) over arrays
@@ -22,7 +24,10 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/resource.h>
+#include <sys/wait.h>
 #include <time.h>
+#include <unistd.h>
 
 #include "bellcheck.h"
 #include "solver_internal.h"
@@ -174,12 +179,43 @@ static int model(const char *path, const char *prefix)
     return rc;
 }
 
+/* Runs argv[0..] as a child and writes its wall time, peak resident memory
+ * and exit status as one line of JSON to result.  The child is forked from
+ * this small process on purpose: Linux carries a process's peak resident
+ * size across exec, so a child spawned from a large parent (the Python
+ * driver) would report the parent's size. */
+static int run_child(const char *result, char **argv)
+{
+    double t0 = now();
+    pid_t pid = fork();
+    if (pid < 0)
+        return 1;
+    if (pid == 0) {
+        execv(argv[0], argv);
+        _exit(127);
+    }
+    int status;
+    struct rusage ru; /* this process has had only this one child */
+    if (waitpid(pid, &status, 0) != pid || getrusage(RUSAGE_CHILDREN, &ru) != 0)
+        return 1;
+    double wall = now() - t0;
+    FILE *f = fopen(result, "w");
+    if (!f)
+        return 1;
+    fprintf(f, "{\"seconds\": %.6g, \"peak_bytes\": %.0f, \"status\": %d}\n", wall,
+            (double)ru.ru_maxrss * 1024.0, WIFEXITED(status) ? WEXITSTATUS(status) : 128);
+    return fclose(f) != 0;
+}
+
 int main(int argc, char **argv)
 {
+    if (argc >= 4 && !strcmp(argv[1], "run"))
+        return run_child(argv[2], argv + 3);
     if (argc >= 2 && !strcmp(argv[1], "stream"))
         return stream(argc >= 3 ? (size_t)atol(argv[2]) : 256);
     if (argc >= 3 && !strcmp(argv[1], "model"))
         return model(argv[2], argc >= 4 ? argv[3] : NULL);
-    fputs("usage: probe stream [MIB] | probe model FILE [DUMP-PREFIX]\n", stderr);
+    fputs("usage: probe stream [MIB] | probe model FILE [DUMP-PREFIX] | probe run RESULT CMD...\n",
+          stderr);
     return 2;
 }
