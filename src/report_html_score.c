@@ -1,6 +1,7 @@
 /* report_html_score.c — the HTML page of `score`: verdict and gates first, then figures with their proofs, the worst states and the maps. */
 /* SPDX-License-Identifier: GPL-3.0-or-later */
 #include "report_html_internal.h"
+#include "report_internal.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -111,10 +112,8 @@ static void figures(FILE *f, const bc_model *m, const bc_score *s)
 static void worst_table(FILE *f, const bc_model *m, const bc_score *s, int32_t top)
 {
     int32_t shown = 0;
-    for (int32_t k = 0; k < m->n_states && shown < top; k++) {
+    for (int32_t k = bc__next_worst(m, s, 0); k >= 0 && shown < top; k = bc__next_worst(m, s, k + 1)) {
         int32_t st = s->by_regret[k];
-        if (m->terminal[st] || isnan(s->state_regret[st]) || !(s->state_regret[st] > 0))
-            continue;
         if (shown++ == 0)
             fputs("<h2>Worst states</h2>\n<table>\n<tr><th>state</th><th>agent's action</th>"
                   "<th>optimal action</th><th>regret</th><th>agent's value</th><th>V*</th></tr>\n", f);

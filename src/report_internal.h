@@ -9,6 +9,9 @@
 /* Writes the "model" object every JSON report starts with. */
 void bc__json_model(bc_jw *w, const bc_model *m);
 
+/* The next position k' >= k in s->by_regret of a state a worst-states list
+ * shows (non-terminal, covered, regret > 0), or -1 when there is none. */
+int32_t bc__next_worst(const bc_model *m, const bc_score *s, int32_t k);
 /* "v (exact)", "v +/- b (interval proof)" or "v (estimate, not proven)". */
 void bc__value_text(FILE *f, double v, bc_proof p);
 /* {"kind": ..., "bound": ...} under key. */

@@ -86,13 +86,21 @@ static void figures_text(FILE *f, const bc_model *m, const bc_score *s)
     }
 }
 
+int32_t bc__next_worst(const bc_model *m, const bc_score *s, int32_t k)
+{
+    for (; k < m->n_states; k++) {
+        int32_t st = s->by_regret[k];
+        if (!m->terminal[st] && !isnan(s->state_regret[st]) && s->state_regret[st] > 0)
+            return k;
+    }
+    return -1;
+}
+
 static void top_text(FILE *f, const bc_model *m, const bc_score *s, int32_t top)
 {
     int32_t shown = 0;
-    for (int32_t k = 0; k < m->n_states && shown < top; k++) {
+    for (int32_t k = bc__next_worst(m, s, 0); k >= 0 && shown < top; k = bc__next_worst(m, s, k + 1)) {
         int32_t st = s->by_regret[k];
-        if (m->terminal[st] || isnan(s->state_regret[st]) || !(s->state_regret[st] > 0))
-            continue;
         if (shown++ == 0)
             fprintf(f, "worst states:\n  %-20s %-14s %-14s %-14s %s\n", "state", "agent", "optimal",
                     "regret", "V agent / V*");
@@ -175,10 +183,8 @@ static void json_top(bc_jw *w, const bc_model *m, const bc_score *s, int32_t top
 {
     bc_jw_array(w, "worst_states");
     int32_t shown = 0;
-    for (int32_t k = 0; k < m->n_states && shown < top; k++) {
+    for (int32_t k = bc__next_worst(m, s, 0); k >= 0 && shown < top; k = bc__next_worst(m, s, k + 1)) {
         int32_t st = s->by_regret[k];
-        if (m->terminal[st] || isnan(s->state_regret[st]) || !(s->state_regret[st] > 0))
-            continue;
         shown++;
         int64_t pa = agent_pair(m, s, st), po = s->optimum.policy[st];
         bc_jw_object(w, NULL);
