@@ -97,9 +97,33 @@ void bc__enclosure_free(bc__enclosure *e)
     memset(e, 0, sizeof *e);
 }
 
+/* 1 when the rounding mode really changes results.  An emulator (valgrind)
+ * computes in round-to-nearest whatever mode is set; every interval would
+ * then be too narrow by up to an ulp and the proofs silently wrong. */
+/* A call the compiler cannot move across fesetround (GCC may move bare
+ * arithmetic across it even with -frounding-math). */
+static __attribute__((noinline)) double divide(double a, double b)
+{
+    volatile double q = a / b;
+    return q;
+}
+
+static int rounding_honoured(void)
+{
+    int old = fegetround();
+    fesetround(FE_DOWNWARD);
+    double down = divide(1.0, 3.0);
+    fesetround(FE_UPWARD);
+    double up = divide(1.0, 3.0);
+    fesetround(old);
+    return down < up;
+}
+
 int bc__enclosure_build(const bc_model *m, int sgn, bc__enclosure *e)
 {
     memset(e, 0, sizeof *e);
+    if (!rounding_honoured())
+        return -2;
     size_t nt = (size_t)(m->n_trans ? m->n_trans : 1), np = (size_t)(m->n_pairs ? m->n_pairs : 1);
     e->plo = malloc(nt * sizeof(double));
     e->phi = malloc(nt * sizeof(double));

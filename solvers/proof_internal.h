@@ -26,7 +26,9 @@ typedef struct {
     double glo, ghi;
 } bc__enclosure;
 
-/* Builds the enclosures of m (discount g: m's own); 0, or -1 if out of memory. */
+/* Builds the enclosures of m (discount g: m's own); 0, -1 if out of memory,
+ * -2 when this machine (or an emulator) does not honour the rounding mode,
+ * so that no interval proof can be trusted. */
 int bc__enclosure_build(const bc_model *m, int sgn, bc__enclosure *e);
 void bc__enclosure_free(bc__enclosure *e);
 

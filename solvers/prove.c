@@ -300,7 +300,12 @@ static int prove_interval(const bc_model *m, bc_solution *sol, bc_proof_result *
 {
     const int sgn = m->objective == BC_MIN ? -1 : 1;
     bc__enclosure e;
-    if (bc__enclosure_build(m, sgn, &e) < 0)
+    int built = bc__enclosure_build(m, sgn, &e);
+    if (built == -2) {
+        proof_none(out, "no interval proof: the rounding mode is not honoured here (an emulator?)");
+        return 0;
+    }
+    if (built < 0)
         return -1;
     int rc = m->horizon > 0       ? prove_interval_horizon(m, sol, sgn, &e, out)
              : m->discount >= 1.0 ? prove_interval_undiscounted(m, sol, sgn, &e, out)

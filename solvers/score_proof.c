@@ -110,8 +110,10 @@ static int agent_interval(const bc_model *m, bc_score *out)
     size_t n = (size_t)(m->n_states ? m->n_states : 1);
     bc__enclosure e;
     double *v = malloc(n * sizeof *v);
-    int rc = -1;
-    if (!v || bc__enclosure_build(m, sgn, &e) < 0)
+    int rc = -1, built = v ? bc__enclosure_build(m, sgn, &e) : -1;
+    if (built == -2)
+        rc = 0; /* rounding not honoured: the values stay unproven */
+    if (built < 0)
         goto done;
     for (int32_t s = 0; s < m->n_states; s++)
         v[s] = sgn * out->values[s];
@@ -207,9 +209,10 @@ static int qtable_proofs(const bc_model *m, const bc_qtable *q, double g_q, bc_s
     size_t n = (size_t)(m->n_states ? m->n_states : 1);
     double *vq = malloc(n * sizeof *vq);
     bc__enclosure e;
-    if (!vq || bc__enclosure_build(m, 1, &e) < 0) {
+    int built = vq ? bc__enclosure_build(m, 1, &e) : -1;
+    if (built < 0) {
         free(vq);
-        return -1;
+        return built == -2 ? 0 : -1; /* -2: the figures stay unproven */
     }
     for (int32_t s = 0; s < m->n_states; s++)
         vq[s] = bc_sc_q_best(m, q, s);

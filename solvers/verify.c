@@ -105,9 +105,13 @@ static int verify_interval(const bc_model *m, const bc_certificate *c, bc_verdic
     bc__enclosure e;
     size_t n = (size_t)(m->n_states ? m->n_states : 1);
     double *v = malloc(n * sizeof *v), *margin = malloc(n * sizeof *margin);
-    if (!v || !margin || bc__enclosure_build(m, sgn, &e) < 0) {
+    int built = v && margin ? bc__enclosure_build(m, sgn, &e) : -1;
+    if (built < 0) {
         free(v);
         free(margin);
+        if (built == -2)
+            return bad(out, -1, "cannot check: the rounding mode is not honoured here "
+                       "(an emulator?)%s%s", "", "");
         return -1;
     }
     for (int32_t s = 0; s < m->n_states; s++)
