@@ -417,6 +417,14 @@ static bc_solve_status policy_iteration(const bc_model *m, int sgn, const mpq_t 
         }
         if (switched == 0)
             break;
+        if (bc_stop_requested()) {
+            /* An exact step can take minutes; nothing half-exact is returned. */
+            snprintf(out->message, sizeof out->message,
+                     "exact policy iteration: interrupted after %lld evaluations",
+                     (long long)out->steps);
+            st = BC_SOLVE_INTERRUPTED;
+            break;
+        }
         int32_t bad = -1;
         if (m->discount >= 1.0 && bc_sv_policy_proper(m, out->policy, NULL, &bad) != 0) {
             char lb[32];

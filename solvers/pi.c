@@ -474,16 +474,24 @@ static bc_solve_status pi_run(const bc_model *m, const bc_solve_opts *o, const d
             eps = floor_ + fmin(1e-12 * (sc.reward_max + vmax), 0.25 * o->tol * (1.0 - m->discount));
             changed = improve(m, sgn, sol->values, eps, next, &gain);
         }
+        bc_sv_trace(sol, BC_METHOD_PI, sol->iterations, fmax(gain, 0.0),
+                    m->discount < 1.0 ? (res + fmax(gain, 0.0) + bc_sv_backup_error(m, &sc, vmax)) /
+                                            (1.0 - m->discount)
+                                      : -1.0);
         if (changed > 0 && (sol->iterations >= max_steps || bc_sv_out_of_time(o, t0)))
             st = BC_SOLVE_NOT_CONVERGED; /* keep the evaluated policy with its values */
+        else if (changed > 0 && bc_stop_requested())
+            st = BC_SOLVE_INTERRUPTED; /* the same */
         else if (changed > 0)
             memcpy(sol->policy, next, (size_t)m->n_states * sizeof *next);
     }
-    if (st == BC_SOLVE_OK || st == BC_SOLVE_NOT_CONVERGED) {
+    if (st == BC_SOLVE_OK || st == BC_SOLVE_NOT_CONVERGED || st == BC_SOLVE_INTERRUPTED) {
         sol->bound = w.n == 0 ? 0.0
                               : final_bound(m, &w, &sc, sol->policy, sol->values, res, gain, scratch);
-        if (st == BC_SOLVE_NOT_CONVERGED && m->discount >= 1.0)
+        if (st != BC_SOLVE_OK && m->discount >= 1.0)
             sol->bound = -1;
+        if (sol->iterations > 0)
+            bc_sv_trace_last(sol, BC_METHOD_PI, sol->iterations, fmax(gain, 0.0), sol->bound);
         char from[96] = "";
         if (warm > 0 && m->discount < 1.0)
             snprintf(from, sizeof from, " from the policy of %lld value-iteration sweeps",
@@ -491,7 +499,10 @@ static bc_solve_status pi_run(const bc_model *m, const bc_solve_opts *o, const d
         snprintf(sol->message, sizeof sol->message,
                  "policy iteration%s: %lld evaluations%s, residual %.3g, gain left %.3g; %s %.3g",
                  from, (long long)sol->iterations,
-                 st == BC_SOLVE_NOT_CONVERGED ? " (stopped by the limit)" : "", res, gain,
+                 st == BC_SOLVE_NOT_CONVERGED ? " (stopped by the limit)"
+                 : st == BC_SOLVE_INTERRUPTED ? " (interrupted)"
+                                              : "",
+                 res, gain,
                  m->discount < 1.0 ? "proven |V - V*| <=" : "proven |V - V^pi| <=", sol->bound);
     }
     pi_work_free(&w);

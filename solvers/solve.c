@@ -62,9 +62,12 @@ void bc_solution_free(bc_solution *sol)
     free(sol->values);
     free(sol->policy);
     free(sol->stage_policy);
+    free(sol->trace);
     sol->values = NULL;
     sol->policy = NULL;
     sol->stage_policy = NULL;
+    sol->trace = NULL;
+    sol->n_trace = 0;
 }
 
 /* ------------------------------------------------------------------------ */
@@ -128,7 +131,10 @@ static bc_solve_status solve_adaptive(const bc_model *m, const bc_solve_opts *o,
         return st;
     double *v0 = sol->values;
     int64_t sweeps = sol->iterations;
+    bc_trace_point *vi_trace = sol->trace; /* goes before policy iteration's history */
+    int64_t n_vi_trace = sol->n_trace;
     sol->values = NULL;
+    sol->trace = NULL;
     bc_solution_free(sol);
     bc_solve_opts rest = *o;
     if (o->max_seconds > 0) {
@@ -136,6 +142,13 @@ static bc_solve_status solve_adaptive(const bc_model *m, const bc_solve_opts *o,
         rest.max_seconds = rest.max_seconds > 1e-3 ? rest.max_seconds : 1e-3;
     }
     st = bc_sv_solve_pi_warm(m, &rest, v0, sweeps, sol);
+    if (bc_sv_trace_join(sol, vi_trace, n_vi_trace) < 0) {
+        /* The history is a by-product; the answer stands, and says what is missing. */
+        size_t n = strlen(sol->message);
+        snprintf(sol->message + n, sizeof sol->message - n,
+                 " (the history of the sweeps is lost: out of memory)");
+    }
+    free(vi_trace);
     free(v0);
     sol->seconds = bc_sv_now() - t0;
     return st;

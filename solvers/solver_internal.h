@@ -162,6 +162,20 @@ bc_solve_status bc_sv_vi_or_handover(const bc_model *m, const bc_solve_opts *o, 
 bc_solve_status bc_sv_solve_pi_warm(const bc_model *m, const bc_solve_opts *o, const double *v0,
                                     int64_t skipped_sweeps, bc_solution *sol);
 
+/* --- Convergence history (solvers/trace.c) ------------------------------ */
+
+/* Points a solution's history keeps at most (it is thinned when full). */
+#define BC_SV_TRACE_MAX 4096
+/* Records iteration's residual and proven bound (-1: none) when the thinning keeps it. */
+void bc_sv_trace(bc_solution *sol, bc_method method, int64_t iteration, double residual,
+                 double bound);
+/* Records the final iteration whatever the thinning (replacing it if already recorded). */
+void bc_sv_trace_last(bc_solution *sol, bc_method method, int64_t iteration, double residual,
+                      double bound);
+/* Puts first[0..n_first) before dst's history (it may have been longer than
+ * BC_SV_TRACE_MAX then); 0, or -1 when out of memory (dst unchanged). */
+int bc_sv_trace_join(bc_solution *dst, bc_trace_point *first, int64_t n_first);
+
 /* Default limits when o->max_iter is 0. */
 #define BC_SV_VI_MAX_SWEEPS 1000000
 #define BC_SV_PI_MAX_STEPS 10000

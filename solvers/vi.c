@@ -138,7 +138,7 @@ static bc_solve_status vi_discounted(const bc_model *m, const bc_solve_opts *o, 
     double shift = 0.0;
     bc_sv_scales sc;
     bc_sv_scales_of(m, &sc);
-    double hist[RATE_SPAN + 1] = {0}, half = INFINITY, allow = 0.0;
+    double hist[RATE_SPAN + 1] = {0}, half = INFINITY, allow = 0.0, resid = INFINITY;
     int64_t sweeps = 0, slow_since = 0, peak = 0, below = 0;
     int64_t *greedy = tv_policy; /* the greedy policy of the last sweep (handover only) */
     bc_solve_status st;
@@ -158,6 +158,8 @@ static bc_solve_status vi_discounted(const bc_model *m, const bc_solve_opts *o, 
             return bc_sv_finish(m, sol, BC_SOLVE_FAILED, t0);
         }
         allow = allowance(m, &sc, &ss, shift);
+        resid = fmax(fabs(ss.dmin), fabs(ss.dmax));
+        bc_sv_trace(sol, BC_METHOD_VI, sweeps, resid, half + allow);
         hist[sweeps % (RATE_SPAN + 1)] = half;
         /* Below the allowance, rounding may decide the half-width and more
          * sweeps may not help: go on while it has not halved, for at most
@@ -172,6 +174,10 @@ static bc_solve_status vi_discounted(const bc_model *m, const bc_solve_opts *o, 
             st = BC_SOLVE_NOT_CONVERGED;
             break;
         }
+        if (bc_stop_requested()) {
+            st = BC_SOLVE_INTERRUPTED;
+            break;
+        }
         if (handover && (slow_since || converging_slowly(hist, sweeps, half, o->tol))) {
             /* Slow: go on only until the greedy policy settles, so that
              * policy iteration starts close to the optimum (on a large grid
@@ -180,6 +186,7 @@ static bc_solve_status vi_discounted(const bc_model *m, const bc_solve_opts *o, 
             if (policy_settled(m, sol->policy, greedy, sweeps - slow_since, &peak) ||
                 sweeps - slow_since >= BC_SV_WARM_SWEEPS) {
                 *slow = 1;
+                bc_sv_trace_last(sol, BC_METHOD_VI, sweeps, resid, half + allow);
                 sol->iterations = sweeps;
                 to_midpoint(m, v, first, shift);
                 return BC_SOLVE_NOT_CONVERGED;
@@ -188,6 +195,7 @@ static bc_solve_status vi_discounted(const bc_model *m, const bc_solve_opts *o, 
     }
     sol->bound = half + allow;
     sol->iterations = sweeps;
+    bc_sv_trace_last(sol, BC_METHOD_VI, sweeps, resid, sol->bound);
     to_midpoint(m, v, first, shift);
     bc__sweep_stat ss; /* the greedy policy, with the other buffer as scratch */
     bc__sweep_jacobi(m, sgn, first, v == first ? tv : v, sol->policy, o->threads, &ss);
@@ -196,7 +204,9 @@ static bc_solve_status vi_discounted(const bc_model *m, const bc_solve_opts *o, 
                      "|V - V*| <= %.3g (half-width %.3g + rounding %.3g)",
                      (long long)sweeps, sol->bound, half, allow);
     if (n > 0 && (size_t)n < sizeof sol->message) {
-        if (st == BC_SOLVE_NOT_CONVERGED)
+        if (st == BC_SOLVE_INTERRUPTED)
+            snprintf(sol->message + n, sizeof sol->message - (size_t)n, "; interrupted");
+        else if (st == BC_SOLVE_NOT_CONVERGED)
             snprintf(sol->message + n, sizeof sol->message - (size_t)n, "; stopped by %s",
                      sweeps >= max_sweeps ? "the sweep limit" : "the time limit");
         else if (sol->bound > o->tol)
@@ -239,7 +249,7 @@ static bc_solve_status vi_total(const bc_model *m, const bc_solve_opts *o, bc_so
     bc_sv_scales_of(m, &sc);
     int64_t sweeps = 0;
     double hist[RATE_WINDOW + 1] = {0};
-    double resid = INFINITY, vmax = 0.0, est = INFINITY, rho = 1.0;
+    double resid = INFINITY, vmax = 0.0, est = INFINITY, rho = 1.0, last_change = INFINITY;
     bc_solve_status st;
     for (;;) {
         double lo, hi;
@@ -255,6 +265,12 @@ static bc_solve_status vi_total(const bc_model *m, const bc_solve_opts *o, bc_so
             sol->iterations = sweeps;
             return bc_sv_finish(m, sol, BC_SOLVE_FAILED, t0);
         }
+        last_change = change;
+        bc_sv_trace(sol, BC_METHOD_VI, sweeps, change, -1.0);
+        if (bc_stop_requested()) {
+            st = BC_SOLVE_INTERRUPTED;
+            break;
+        }
         est = error_estimate(hist, sweeps, change, &rho);
         if ((change > o->tol || est > o->tol) && !limit)
             continue;
@@ -267,6 +283,16 @@ static bc_solve_status vi_total(const bc_model *m, const bc_solve_opts *o, bc_so
     }
     sol->iterations = sweeps;
     sol->bound = -1;
+    bc_sv_trace_last(sol, BC_METHOD_VI, sweeps, last_change, -1.0);
+    if (st == BC_SOLVE_INTERRUPTED) {
+        /* An iterate of Gauss-Seidel from 0: nothing proven, and no
+         * termination check of its greedy policy is worth making. */
+        bc_sv_greedy(m, sgn, v, sol->policy);
+        snprintf(sol->message, sizeof sol->message,
+                 "value iteration (discount 1): interrupted after %lld sweeps; nothing is proven",
+                 (long long)sweeps);
+        return bc_sv_finish(m, sol, st, t0);
+    }
     int32_t bad = -1;
     double tie_tol = 4.0 * (resid + bc_sv_backup_error(m, &sc, vmax));
     int64_t n_bad = bc_sv_greedy_proper(m, sgn, v, tie_tol, sol->policy, &bad);

@@ -332,8 +332,21 @@ typedef enum {
     BC_SOLVE_OK = 0,
     BC_SOLVE_NOT_CONVERGED = 1, /* limit reached; values hold the last iterate */
     BC_SOLVE_FAILED = 2,        /* numerical or library failure; message says why */
-    BC_SOLVE_NOMEM = 3
+    BC_SOLVE_NOMEM = 3,
+    BC_SOLVE_INTERRUPTED = 4    /* bc_stop_request() was called; values hold the last iterate and
+                                   bound the best proven so far (-1 if none) */
 } bc_solve_status;
+
+/* One point of a solve's convergence history: after `iteration` (a value-iteration sweep
+ * or a policy-iteration improvement step of `method`), residual = largest |Tv(s) - v(s)|
+ * (vi; Gauss-Seidel change at discount 1) or largest improvement any pair still offers (pi),
+ * bound = the proven bound on |v - V*| at that point, -1 when none is proven. */
+typedef struct {
+    bc_method method;
+    int64_t iteration;
+    double residual;
+    double bound;
+} bc_trace_point;
 
 typedef struct {
     bc_method method;
@@ -346,6 +359,9 @@ typedef struct {
     int64_t iterations;
     double seconds;
     char message[256];      /* what happened, in one line */
+    bc_trace_point *trace;  /* [n_trace] convergence history (vi and pi; NULL for the others) */
+    int64_t n_trace;
+    int64_t trace_stride;   /* every trace_stride-th iteration is kept (long runs are thinned) */
 } bc_solution;
 
 void bc_solution_init(bc_solution *sol);  /* zeroes everything, bound -1 */
@@ -360,6 +376,11 @@ bc_solve_status bc_solve_backward(const bc_model *m, const bc_solve_opts *o, bc_
 /* The automatic method, then exact policy iteration from its answer: values are the
  * doubles nearest the exact optimum (bc_prove_solution keeps the rationals). */
 bc_solve_status bc_solve_exact(const bc_model *m, const bc_solve_opts *o, bc_solution *sol);
+/* Asks running solves to stop at their next sweep or step (async-signal-safe: only sets a
+ * flag); they return BC_SOLVE_INTERRUPTED with their best proven bound. */
+void bc_stop_request(void);
+int bc_stop_requested(void); /* 1 once bc_stop_request was called, until bc_stop_clear */
+void bc_stop_clear(void);    /* forgets an earlier request */
 /* Picks the method (auto: the fastest that certifies its answer for m) and solves. */
 bc_solve_status bc_solve(const bc_model *m, bc_method method, const bc_solve_opts *o, bc_solution *sol);
 /* The method bc_solve would use for m under BC_METHOD_AUTO. */

@@ -24,6 +24,7 @@ static const char *status_word(bc_solve_status s)
     case BC_SOLVE_OK: return "solved";
     case BC_SOLVE_NOT_CONVERGED: return "not converged";
     case BC_SOLVE_FAILED: return "failed";
+    case BC_SOLVE_INTERRUPTED: return "interrupted";
     default: return "out of memory";
     }
 }

@@ -5,6 +5,7 @@
 #include <string.h>
 
 #include "bellcheck.h"
+#include "../../solvers/solver_internal.h"
 #include "unit.h"
 
 /* ------------------------------------------------------------------------ */
@@ -428,6 +429,80 @@ static void test_agreement(int64_t gn, int64_t gd, double floor_, const char *la
     bc_model_free(m);
 }
 
+/* The convergence history and the stop request, on Puterman's two-state
+ * model (above).  First two Jacobi sweeps from v = 0, by hand: Tv = (max(5,
+ * 10), -1) = (10, -1), largest change 10; then s1: max(5 + 0.95 (10 - 1)/2,
+ * 10 - 0.95) = 9.275, s2: -1.95, largest change 0.95.  The MacQueen-Porteus
+ * half-width after sweep 1 is g/(1-g) (10 - (-1))/2 = 19 * 5.5 = 104.5 (plus
+ * a rounding allowance far below 1e-9). */
+static void test_trace_and_stop(void)
+{
+    static const char *const st[] = {"s1", "s2"};
+    static const char *const ac[] = {"a11", "a12", "a21"};
+    static const pair_spec pairs[] = {
+        {0, 0, 5, 1, 2, {0, 1}, {1, 1}, {2, 2}},
+        {0, 1, 10, 1, 1, {1}, {1}, {1}},
+        {1, 2, -1, 1, 1, {1}, {1}, {1}},
+    };
+    model_spec sp = {st, 2, ac, 3, "00", pairs, 3, 19, 20, BC_MAX, 0};
+    bc_model *m = make_model(&sp);
+    const double exact[2] = {-60.0 / 7.0, -20.0};
+    bc_solve_opts o;
+    bc_solve_opts_default(&o);
+    bc_solution sol;
+    bc_solve(m, BC_METHOD_VI, &o, &sol);
+    CHECK(sol.n_trace == sol.iterations && sol.n_trace >= 2 && sol.trace[0].method == BC_METHOD_VI,
+          "trace: one point per sweep");
+    CHECK(sol.trace[0].iteration == 1 && sol.trace[0].residual == 10.0 &&
+              sol.trace[1].iteration == 2 && fabs(sol.trace[1].residual - 0.95) < 1e-12,
+          "trace: residuals of the first two sweeps as by hand");
+    CHECK(sol.trace[0].bound >= 104.5 && sol.trace[0].bound <= 104.5 + 1e-9,
+          "trace: first proven bound is the MacQueen-Porteus half-width 104.5");
+    CHECK(sol.trace[sol.n_trace - 1].bound == sol.bound &&
+              sol.trace[sol.n_trace - 1].iteration == sol.iterations,
+          "trace: the last point is the answer's bound");
+    bc_solution_free(&sol);
+
+    bc_solve(m, BC_METHOD_PI, &o, &sol);
+    CHECK(sol.n_trace == sol.iterations && sol.n_trace >= 1 && sol.trace[0].method == BC_METHOD_PI &&
+              sol.trace[sol.n_trace - 1].bound == sol.bound,
+          "trace: policy iteration records one point per evaluation");
+    bc_solution_free(&sol);
+
+    bc_stop_request();
+    bc_solve_status s1 = bc_solve(m, BC_METHOD_VI, &o, &sol);
+    CHECK(s1 == BC_SOLVE_INTERRUPTED && sol.iterations == 1 && sol.bound >= 104.5 &&
+              max_abs_diff(sol.values, exact, 2) <= sol.bound,
+          "stop: value iteration stops after one sweep, its bound holds");
+    bc_solution_free(&sol);
+    bc_solve_status s2 = bc_solve(m, BC_METHOD_PI, &o, &sol);
+    CHECK((s2 == BC_SOLVE_INTERRUPTED || s2 == BC_SOLVE_OK) && sol.iterations == 1 &&
+              sol.bound >= 0 && max_abs_diff(sol.values, exact, 2) <= sol.bound,
+          "stop: policy iteration stops after one evaluation, its bound holds");
+    bc_solution_free(&sol);
+    bc_stop_clear();
+    CHECK(bc_solve(m, BC_METHOD_VI, &o, &sol) == BC_SOLVE_OK && !bc_stop_requested(),
+          "stop: cleared, the next solve runs to the end");
+    bc_solution_free(&sol);
+    bc_model_free(m);
+
+    /* Thinning: 10,000 recorded iterations keep at most BC_SV_TRACE_MAX
+     * points, the first and last among them, in increasing order. */
+    bc_solution_init(&sol);
+    for (int64_t i = 1; i <= 10000; i++)
+        bc_sv_trace(&sol, BC_METHOD_VI, i, 1.0 / (double)i, -1.0);
+    bc_sv_trace_last(&sol, BC_METHOD_VI, 10000, 1e-4, 0.5);
+    int ordered = 1;
+    for (int64_t i = 1; i < sol.n_trace; i++)
+        ordered &= sol.trace[i].iteration > sol.trace[i - 1].iteration &&
+                   sol.trace[i].residual == 1.0 / (double)sol.trace[i].iteration;
+    CHECK(sol.n_trace <= BC_SV_TRACE_MAX && sol.n_trace >= BC_SV_TRACE_MAX / 4 && ordered &&
+              sol.trace[0].iteration == 1 && sol.trace[sol.n_trace - 1].iteration == 10000 &&
+              sol.trace[sol.n_trace - 1].bound == 0.5,
+          "trace: a long run is thinned evenly and keeps its ends");
+    bc_solution_free(&sol);
+}
+
 static void test_names_and_auto(void)
 {
     bc_method mt;
@@ -453,5 +528,6 @@ int main(void)
     test_agreement(9, 10, 1e-9, "g=0.9");
     test_agreement(999, 1000, 1e-8, "g=0.999");
     test_names_and_auto();
+    test_trace_and_stop();
     UNIT_DONE();
 }
