@@ -314,6 +314,30 @@ static double max_steps_bound(const bc_model *m, pi_work *w, const bc_sv_scales 
     return rn < 0.5 ? nmax / (1.0 - rn) : -1;
 }
 
+/* Replaces policy's pairs at the states from which it does not terminate
+ * by those of bc_sv_proper_policy.  The terminating states are closed under
+ * policy and keep their pairs; from a patched state the proper pair reaches,
+ * with positive probability, a state nearer the terminal set (patched) or a
+ * terminating one, so the result terminates everywhere some policy does.
+ * 0 when it does (checked), else -1 (also when out of memory). */
+static int patch_loops(const bc_model *m, int64_t *policy)
+{
+    const size_t n = (size_t)(m->n_states ? m->n_states : 1);
+    uint8_t *ends = malloc(n);
+    int64_t *proper = malloc(n * sizeof *proper);
+    int32_t bad = -1;
+    int rc = -1;
+    if (ends && proper && bc_sv_policy_proper(m, policy, ends, &bad) >= 0 &&
+        bc_sv_proper_policy(m, NULL, proper, &bad) == 0) {
+        for (int32_t s = 0; s < m->n_states; s++)
+            if (!ends[s] && !m->terminal[s])
+                policy[s] = proper[s];
+        rc = bc_sv_policy_proper(m, policy, NULL, &bad) == 0 ? 0 : -1;
+    }
+    free(ends), free(proper);
+    return rc;
+}
+
 /* The starting policy: greedy on v0 (discount < 1; v0 NULL: on immediate
  * reward), or one that terminates with probability 1 (discount 1).  0, or a
  * failure status with the message set. */
@@ -325,6 +349,19 @@ static bc_solve_status start_policy(const bc_model *m, double sgn, const double 
         return BC_SOLVE_OK;
     }
     int32_t bad = -1;
+    if (v0) {
+        /* Greedy on v0 where that terminates, ties broken towards the
+         * terminal states, the usual start's pairs where it still loops. */
+        bc_sv_scales sc;
+        bc_sv_scales_of(m, &sc);
+        double vmax = 0.0;
+        for (int32_t s = 0; s < m->n_states; s++)
+            vmax = fmax(vmax, fabs(v0[s]));
+        double tie = 1e-9 * (vmax + sc.reward_max);
+        int64_t n_loop = bc_sv_greedy_proper(m, sgn, v0, tie, sol->policy, &bad);
+        if (n_loop == 0 || (n_loop > 0 && patch_loops(m, sol->policy) == 0))
+            return BC_SOLVE_OK;
+    }
     int64_t n_bad = bc_sv_proper_policy(m, NULL, sol->policy, &bad);
     if (n_bad < 0) {
         snprintf(sol->message, sizeof sol->message, "policy iteration: out of memory");
@@ -444,7 +481,7 @@ static bc_solve_status pi_run(const bc_model *m, const bc_solve_opts *o, const d
     }
     bc_sv_scales sc;
     bc_sv_scales_of(m, &sc);
-    st = start_policy(m, sgn, m->discount < 1.0 ? v0 : NULL, sol);
+    st = start_policy(m, sgn, v0, sol);
     double res = 0.0, gain = 0.0;
     int64_t changed = 1, polish = 0;
     while (st == BC_SOLVE_OK && changed > 0 && w.n > 0) {
@@ -493,7 +530,7 @@ static bc_solve_status pi_run(const bc_model *m, const bc_solve_opts *o, const d
         if (sol->iterations > 0)
             bc_sv_trace_last(sol, BC_METHOD_PI, sol->iterations, fmax(gain, 0.0), sol->bound);
         char from[96] = "";
-        if (warm > 0 && m->discount < 1.0)
+        if (warm > 0)
             snprintf(from, sizeof from, " from the policy of %lld value-iteration sweeps",
                      (long long)warm);
         snprintf(sol->message, sizeof sol->message,

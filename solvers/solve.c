@@ -167,7 +167,7 @@ bc_solve_status bc_solve(const bc_model *m, bc_method method, const bc_solve_opt
     }
     if (method == BC_METHOD_AUTO) {
         method = bc_solve_auto_method(m);
-        if (method == BC_METHOD_VI && m->discount < 1.0 && m->n_states > BC_SV_SMALL_MODEL)
+        if (m->n_states > BC_SV_SMALL_MODEL && (method == BC_METHOD_VI || m->discount >= 1.0))
             return solve_adaptive(m, o, sol);
     }
     switch (method) {

@@ -217,36 +217,66 @@ static int components(const bc_model *m, const uint8_t *cand, const uint8_t *use
     return 0;
 }
 
-/* One round of the end-component refinement over the pairs with use[p]: drop
- * pairs that can leave the candidates or their component, and states left
- * without pairs.  Returns 1 if anything was removed, 0 if stable, -1 on failure. */
-static int ec_round(const bc_model *m, uint8_t *cand, uint8_t *use, int32_t *comp)
+/* 1 when pair p moves to u with positive probability (pos: per transition). */
+static int moves_to(const bc_model *m, const uint8_t *pos, int64_t p, int32_t u)
 {
-    int changed = 0;
+    for (int64_t t = m->pair_trans_start[p]; t < m->pair_trans_start[p + 1]; t++)
+        if (pos[t] && m->succ_state[t] == u)
+            return 1;
+    return 0;
+}
+
+/* Drops, until none is left, the pairs with use[p] that can leave cand and
+ * the states of cand left without such pairs.  A worklist over the reversed
+ * transitions: a dropped state re-examines only the pairs that can reach
+ * it, so the whole pruning costs one pass over the transitions, however
+ * long the chain of states dropping one another (common practice: the
+ * attractor computation of end-component algorithms). */
+static void prune(const bc_model *m, const uint8_t *pos, const bc_reverse *rev, uint8_t *cand,
+                  uint8_t *use, int64_t *count, int32_t *queue)
+{
+    int32_t head = 0, tail = 0;
     for (int32_t s = 0; s < m->n_states; s++) {
         if (!cand[s])
             continue;
-        int any = 0;
+        count[s] = 0;
         for (int64_t p = m->state_pair_start[s]; p < m->state_pair_start[s + 1]; p++) {
-            if (!use[p])
-                continue;
-            for (int64_t t = m->pair_trans_start[p]; t < m->pair_trans_start[p + 1]; t++)
-                if (positive(m, t) && !cand[m->succ_state[t]])
+            for (int64_t t = m->pair_trans_start[p]; use[p] && t < m->pair_trans_start[p + 1]; t++)
+                if (pos[t] && !cand[m->succ_state[t]])
                     use[p] = 0;
-            any |= use[p];
+            count[s] += use[p];
         }
-        if (!any) {
-            cand[s] = 0;
-            changed = 1;
+        if (count[s] == 0)
+            cand[s] = 0, queue[tail++] = s;
+    }
+    while (head < tail) {
+        int32_t u = queue[head++];
+        for (int64_t i = rev->start[u]; i < rev->start[u + 1]; i++) {
+            int64_t p = rev->pair_of[i];
+            int32_t s = m->pair_state[p];
+            if (!cand[s] || !use[p] || !moves_to(m, pos, p, u))
+                continue;
+            use[p] = 0;
+            if (--count[s] == 0)
+                cand[s] = 0, queue[tail++] = s;
         }
     }
+}
+
+/* Drops the pairs of cand that can move to another strongly connected
+ * component (over the pairs with use[p]).  1 if any was dropped, 0 if none,
+ * -1 on failure. */
+static int split_components(const bc_model *m, const uint8_t *pos, uint8_t *cand, uint8_t *use,
+                            int32_t *comp)
+{
     if (components(m, cand, use, comp) < 0)
         return -1;
+    int changed = 0;
     for (int64_t p = 0; p < m->n_pairs; p++) {
         if (!use[p] || !cand[m->pair_state[p]])
             continue;
         for (int64_t t = m->pair_trans_start[p]; t < m->pair_trans_start[p + 1]; t++)
-            if (positive(m, t) && comp[m->succ_state[t]] != comp[m->pair_state[p]]) {
+            if (pos[t] && comp[m->succ_state[t]] != comp[m->pair_state[p]]) {
                 use[p] = 0;
                 changed = 1;
                 break;
@@ -257,15 +287,33 @@ static int ec_round(const bc_model *m, uint8_t *cand, uint8_t *use, int32_t *com
 
 /* End components over the pairs with use[p] set on entry: on return cand[s]
  * is 1 for states some policy (using only such pairs) can keep forever, use[p]
- * marks the pairs that stay inside, comp[s] the component.  0 or -1. */
+ * marks the pairs that stay inside, comp[s] the component.  Alternates the
+ * pruning and the split into components until neither drops anything.
+ * 0 or -1. */
 static int end_components(const bc_model *m, uint8_t *cand, uint8_t *use, int32_t *comp)
 {
+    const size_t n = (size_t)m->n_states + 1;
+    uint8_t *pos = malloc((size_t)m->n_trans + 1);
+    int64_t *count = malloc(n * sizeof *count);
+    int32_t *queue = malloc(n * sizeof *queue);
+    bc_reverse rev = {NULL, NULL};
+    int rc = -1;
+    if (!pos || !count || !queue || bc_reverse_build(m, NULL, &rev) < 0)
+        goto done;
+    for (int64_t t = 0; t < m->n_trans; t++)
+        pos[t] = (uint8_t)positive(m, t);
     for (int32_t s = 0; s < m->n_states; s++)
         cand[s] = !m->terminal[s];
-    for (int r; (r = ec_round(m, cand, use, comp)) != 0;)
-        if (r < 0)
-            return -1;
-    return 0;
+    for (int r = 1; r != 0;) {
+        prune(m, pos, &rev, cand, use, count, queue);
+        if ((r = split_components(m, pos, cand, use, comp)) < 0)
+            goto done;
+    }
+    rc = 0;
+done:
+    free(pos), free(count), free(queue);
+    bc_reverse_free(&rev);
+    return rc;
 }
 
 /* Discount 1: states of end components made of zero-reward pairs (some policy

@@ -52,3 +52,20 @@ PYEOF
 else
   fail "grid 40 auto" "$GRID missing (make test builds it)"
 fi
+
+# Discount 1 beyond 100 states: auto runs Gauss-Seidel sweeps until the
+# greedy policy stops changing, then policy iteration from that policy (its
+# proven bound needs the evaluation).  The crater-rover task on a 24 x 24
+# grid (577 states; the grid's probabilities are checked against Python in
+# test_task_ref), against the independent reference solver.
+r="$TMP/rover-24.bell"
+bc grid "$ROOT/models/crater-rover.task" --cells 24x24 -o "$r" --quiet
+expect_status "rover 24x24 grid exit" 0
+ref_values "$r" "$TMP/ref-r.json"
+bc solve "$r" --json "$TMP/rover.json" --quiet
+expect_status "rover 24x24 auto exit" 0
+"$PY" "$TOOLS/compare_values.py" "rover 24x24 auto (discount 1)" "$TMP/rover.json" "$TMP/ref-r.json" 1e-8 --method pi --model "$r"
+expect_in "rover 24x24 auto: policy iteration warm-started by Gauss-Seidel sweeps" "$TMP/rover.json" "from the policy of"
+# The same with value iteration's sweeps only: no bound, same values to its tolerance.
+bc solve "$r" --method vi --tol 1e-10 --json "$TMP/rover-vi.json" --quiet
+"$PY" "$TOOLS/compare_values.py" "rover 24x24 vi (discount 1)" "$TMP/rover-vi.json" "$TMP/ref-r.json" 1e-6 --method vi --model "$r"
