@@ -49,29 +49,17 @@ static int syntax_fail(bc__agent_reader *r, const char *buf, size_t len, size_t 
 /* Parses buf[0..len) whole; NULL after reporting. */
 static cJSON *parse_document(bc__agent_reader *r, const char *buf, size_t len)
 {
-    const char *end = NULL;
-    cJSON *root = cJSON_ParseWithLengthOpts(buf, len, &end, 0);
-    size_t off = end && end >= buf && (size_t)(end - buf) <= len ? (size_t)(end - buf) : 0;
-    if (root) {
-        while (off < len && (buf[off] == ' ' || buf[off] == '\t' || buf[off] == '\r' ||
-                             buf[off] == '\n'))
-            off++;
-        if (off == len)
-            return root;
-        cJSON_Delete(root);
-        syntax_fail(r, buf, len, off, "text after the end of the JSON document");
-        return NULL;
-    }
+    size_t off;
+    const char *why;
+    cJSON *root = bc__json_parse_whole(buf, len, &off, &why);
+    if (root)
+        return root;
     const char *at = buf + off;
     size_t rest = len - off;
     if ((rest >= 3 && memcmp(at, "NaN", 3) == 0) || (rest >= 8 && memcmp(at, "Infinity", 8) == 0) ||
         (rest >= 9 && memcmp(at, "-Infinity", 9) == 0))
-        syntax_fail(r, buf, len, off, "JSON has no NaN or Infinity: write null for an action the "
-                    "state does not have");
-    else if (off >= len || (off + 1 == len && buf[off] != '}'))
-        syntax_fail(r, buf, len, len, "JSON syntax error: the document ends too early");
-    else
-        syntax_fail(r, buf, len, off, "JSON syntax error here");
+        why = "JSON has no NaN or Infinity: write null for an action the state does not have";
+    syntax_fail(r, buf, len, off, why);
     return NULL;
 }
 

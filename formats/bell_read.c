@@ -1,4 +1,4 @@
-/* bell_read.c — the .bell text reader: one pass over the bytes, tokens fed to the builder. */
+/* bell_read.c — the .bell text reader: one pass over the bytes, line by line, tokens fed to the builder. */
 /*
  * SPDX-License-Identifier: GPL-3.0-or-later
  *
@@ -6,8 +6,18 @@
  * (pointer, length) into the caller's buffer.  A line is a transition line
  * exactly when it contains the token `->`, so state names never clash with the
  * directive keywords.  Columns count bytes from 1.
+ *
+ * The reader takes its input a piece at a time (bc__bell_reader_lines): it
+ * reads the complete lines of each piece and leaves the rest for the next,
+ * so a file is never held whole (formats/input.c feeds it in chunks).
+ *
+ * Speed (docs/performance.md): nothing is allocated per token; numbers are
+ * cached by their text with their id in the builder's value table; a
+ * successor already seen is found by one lookup and handed over by index,
+ * and only names not seen yet have their characters checked.
  */
 #include "bellcheck.h"
+#include "bell_read_internal.h"
 
 #include <stdlib.h>
 #include <string.h>
@@ -16,22 +26,47 @@ typedef struct {
     const char *s;
     size_t len;
     int32_t col;
+    int32_t known; /* successor names: the state's index if already seen, else -1 */
+    uint32_t id;   /* probabilities on the fast path: the value's id */
+    uint64_t key;  /* successor names: the key of their lookup (bc_builder_seek_state) */
+    uint64_t nk[2];        /* numbers on the fast path: their cache key ... */
+    struct num_entry *bucket; /* ... and bucket (num_bucket) */
 } token;
 
 /* Parsed numbers by their text: models repeat a few probabilities and
- * rewards millions of times, and exact parsing (a gcd) costs far more than
- * a lookup.  Direct-mapped; only texts of at most 16 bytes whose value has
- * the small form (independent of the big-number table) are kept. */
-#define NUM_CACHE 16384
-typedef struct {
-    uint64_t k0, k1; /* the text, zero-padded */
-    uint32_t len;    /* 0: empty entry */
-    bc_num value;
+ * rewards millions of times, and exact parsing (a gcd) and interning cost
+ * far more than a lookup.  Only texts of at most 16 bytes whose value has
+ * the small form are kept, with the value's id in the builder's table and
+ * the value as written (num/den before reducing: a line's probabilities
+ * usually share that denominator, which makes their sum two additions).
+ * Two-way: a bucket is two entries in one 64-byte line; a new text goes
+ * first and pushes the older entry to second place. */
+#define NUM_BUCKET_BITS 13
+#define NUM_BUCKETS (1 << NUM_BUCKET_BITS)
+typedef struct num_entry {
+    uint64_t k0, k1;     /* the text, zero-padded */
+    uint32_t id;         /* of the value in the builder's table */
+    uint8_t len;         /* 0: empty entry */
+    int8_t sign;         /* of the value: -1, 0, 1 */
+    uint16_t unused;
+    uint32_t wnum, wden; /* value = wnum/wden exactly, as written; wden 0: not known */
 } num_entry;
 
+_Static_assert(sizeof(num_entry) == 32, "two entries to a 64-byte line");
+
+/* A number read from a token, with what the caller asked for. */
 typedef struct {
+    bc_num value;        /* with WANT_VALUE */
+    uint32_t id;         /* with WANT_ID */
+    int sign;
+    uint32_t wnum, wden; /* as in num_entry; wden 0 when not known */
+} number;
+
+enum { WANT_VALUE = 1, WANT_ID = 2 };
+
+typedef struct bc__bell_reader {
     const char *file;
-    const char *end; /* end of the input buffer */
+    const char *end; /* end of the bytes given: numbers may be loaded a word at a time up to here */
     bc_diag *diag;
     bc_builder *b;
     int32_t line;
@@ -40,7 +75,9 @@ typedef struct {
     size_t n_tok, cap_tok;
     int errors;
     int seen_content; /* a non-comment line was already read */
-    num_entry *num_cache; /* [NUM_CACHE], or NULL (out of memory: no cache) */
+    int started;      /* the first bytes were seen (a byte-order mark is skipped there only) */
+    int stopped;      /* binary data or the error limit: nothing more is read */
+    num_entry *num_cache; /* [2 * NUM_BUCKETS], or NULL (out of memory: no cache) */
 } reader;
 
 static bc_pos pos_of(const reader *r, const token *t)
@@ -104,52 +141,141 @@ static int expect_name(reader *r, const token *t, const char *what)
     return 0;
 }
 
-/* The cache entry of t's text (key in k), or NULL when it cannot be cached. */
-static num_entry *num_slot(const reader *r, const token *t, uint64_t k[2])
+/* The cache bucket of t's text (key in k), or NULL when it cannot be cached. */
+static inline num_entry *num_bucket(const reader *r, const token *t, uint64_t k[2])
 {
     if (!r->num_cache || t->len > 2 * sizeof *k)
         return NULL;
 #if defined(__BYTE_ORDER__) && __BYTE_ORDER__ == __ORDER_LITTLE_ENDIAN__
     if (t->s + 2 * sizeof *k <= r->end) {
         /* Two whole words, masked to the token: no byte-wise copy (whose
-         * stores the loads would wait for). */
-        memcpy(k, t->s, 2 * sizeof *k);
-        if (t->len < 8) {
-            k[0] &= (1ULL << (8 * t->len)) - 1;
-            k[1] = 0;
-        } else if (t->len < 16) {
-            k[1] &= (1ULL << (8 * (t->len - 8))) - 1;
-        }
+         * stores the loads would wait for), no branch on the length. */
+        static const uint64_t keep[17][2] = {
+#define KEEP(n) {(n) >= 8 ? ~0ULL : (1ULL << (8 * (n))) - 1, \
+                 (n) <= 8 ? 0 : (n) >= 16 ? ~0ULL : (1ULL << (8 * ((n) - 8))) - 1}
+            KEEP(0),  KEEP(1),  KEEP(2),  KEEP(3),  KEEP(4),  KEEP(5),  KEEP(6),  KEEP(7), KEEP(8),
+            KEEP(9),  KEEP(10), KEEP(11), KEEP(12), KEEP(13), KEEP(14), KEEP(15), KEEP(16)};
+#undef KEEP
+        uint64_t w0, w1; /* in registers: k is written once, not read back */
+        memcpy(&w0, t->s, sizeof w0);
+        memcpy(&w1, t->s + sizeof w0, sizeof w1);
+        k[0] = w0 & keep[t->len][0];
+        k[1] = w1 & keep[t->len][1];
     } else
 #endif
     {
         k[0] = k[1] = 0;
         memcpy(k, t->s, t->len);
     }
-    uint64_t h = (k[0] * 0x9E3779B97F4A7C15ULL) ^ (k[1] * 0xBF58476D1CE4E5B9ULL) ^ t->len;
-    return &r->num_cache[(h ^ (h >> 29)) % NUM_CACHE];
+    /* A product's high bits depend on all of its factor's bits (its low bits
+     * only on the low ones, the first bytes of the text): take the top. */
+    uint64_t h = (k[0] ^ (k[1] << 29 | k[1] >> 35) ^ t->len) * 0x9E3779B97F4A7C15ULL;
+    return &r->num_cache[2 * (h >> (64 - NUM_BUCKET_BITS))];
+}
+
+/* The number s[0..len) as written, *wnum / *wden, when it is digits with an
+ * optional fraction part, or digits '/' digits, in at most 9 digits a part;
+ * else *wden = 0. */
+static void written_form(const char *s, size_t len, uint32_t *wnum, uint32_t *wden)
+{
+    size_t i = 0, nd = 0, nf = 0;
+    uint64_t a = 0, d = 1;
+    *wden = 0;
+    for (; i < len && s[i] >= '0' && s[i] <= '9'; i++, nd++)
+        a = a * 10 + (uint64_t)(s[i] - '0');
+    if (nd == 0 || nd > 9)
+        return;
+    if (i < len && s[i] == '.') {
+        for (i++; i < len && s[i] >= '0' && s[i] <= '9'; i++, nf++)
+            a = a * 10 + (uint64_t)(s[i] - '0'), d *= 10;
+        if (nf == 0 || nd + nf > 9)
+            return;
+    } else if (i < len && s[i] == '/') {
+        for (i++, d = 0; i < len && s[i] >= '0' && s[i] <= '9'; i++, nf++)
+            d = d * 10 + (uint64_t)(s[i] - '0');
+        if (nf == 0 || nf > 9 || d == 0)
+            return;
+    }
+    if (i != len)
+        return;
+    *wnum = (uint32_t)a;
+    *wden = (uint32_t)d;
+}
+
+static int read_number_in(reader *r, const token *t, num_entry *e, const uint64_t k[2], int want,
+                          number *x, const char **why);
+
+/* Reads the number of token t: from the cache, or parsed (and then cached
+ * when its value is small).  0; -1 when t is not a number (*why says why);
+ * -2 when out of memory. */
+static int read_number(reader *r, const token *t, int want, number *x, const char **why)
+{
+    uint64_t k[2];
+    return read_number_in(r, t, num_bucket(r, t, k), k, want, x, why);
+}
+
+/* read_number with t's cache bucket e and key k already computed (num_bucket). */
+static int read_number_in(reader *r, const token *t, num_entry *e, const uint64_t k[2], int want,
+                          number *x, const char **why)
+{
+    for (int w = 0; e && w < 2; w++) {
+        if (e[w].len == t->len && e[w].k0 == k[0] && e[w].k1 == k[1]) {
+            x->id = e[w].id;
+            x->sign = e[w].sign;
+            x->wnum = e[w].wnum;
+            x->wden = e[w].wden;
+            if (want & WANT_VALUE)
+                x->value = bc_numtab_get(bc_builder_values(r->b), e[w].id);
+            return 0;
+        }
+    }
+    bc_bigtab *big = bc_builder_bigtab(r->b);
+    if (bc_num_parse(t->s, t->len, &x->value, big, why) < 0)
+        return -1;
+    x->sign = bc_num_sign(x->value, big);
+    x->wden = 0;
+    int cache = e && x->value.den != 0;
+    if (!(want & WANT_ID) && !cache)
+        return 0;
+    int64_t v = bc_numtab_intern(bc_builder_values(r->b), x->value);
+    if (v < 0)
+        return -2;
+    x->id = (uint32_t)v;
+    if (!cache)
+        return 0;
+    written_form(t->s, t->len, &x->wnum, &x->wden);
+    if (x->wden && (__int128)x->value.num * x->wden != (__int128)x->wnum * x->value.den)
+        x->wden = 0; /* not what was parsed: never trust it */
+    e[1] = e[0];
+    e[0] = (num_entry){k[0], k[1], x->id, (uint8_t)t->len, (int8_t)x->sign, 0, x->wnum, x->wden};
+    return 0;
+}
+
+/* read_number, reporting a token that is not a number as `what`. */
+static int expect_number_id(reader *r, const token *t, const char *what, int want, number *x)
+{
+    const char *why = NULL;
+    int rc = read_number(r, t, want, x, &why);
+    if (rc == -2) {
+        r->errors++;
+        bc_diag_add(r->diag, BC_ERROR, r->file, r->line, t->col, "out of memory");
+        return -1;
+    }
+    if (rc == 0)
+        return 0;
+    char fmt[320];
+    snprintf(fmt, sizeof fmt, "expected %s, found `%%.*s` (%s)", what, why);
+    return report(r, t, fmt, t->s, t->len > 80 ? 80 : t->len);
 }
 
 /* Parses t as an exact number into *out. */
 static int expect_number(reader *r, const token *t, const char *what, bc_num *out)
 {
-    const char *why = NULL;
-    uint64_t k[2];
-    num_entry *e = num_slot(r, t, k);
-    if (e) {
-        if (e->len == t->len && e->k0 == k[0] && e->k1 == k[1]) {
-            *out = e->value;
-            return 0;
-        }
-    }
-    if (bc_num_parse(t->s, t->len, out, bc_builder_bigtab(r->b), &why) == 0) {
-        if (e && out->den != 0)
-            e->k0 = k[0], e->k1 = k[1], e->len = (uint32_t)t->len, e->value = *out;
-        return 0;
-    }
-    char fmt[320];
-    snprintf(fmt, sizeof fmt, "expected %s, found `%%.*s` (%s)", what, why);
-    return report(r, t, fmt, t->s, t->len > 80 ? 80 : t->len);
+    number x;
+    if (expect_number_id(r, t, what, WANT_VALUE, &x) < 0)
+        return -1;
+    *out = x.value;
+    return 0;
 }
 
 static int is_number_token(const token *t)
@@ -163,40 +289,136 @@ static int is_arrow(const token *t)
     return t->len == 2 && t->s[0] == '-' && t->s[1] == '>';
 }
 
-/* Splits one line [p, end) into tokens, stopping at '#'. */
-/* 1 for the bytes that separate tokens, 2 for the comment mark. */
-static const uint8_t sep_class[256] = {[' '] = 1, ['\t'] = 1, ['\r'] = 1, ['#'] = 2};
+/* 1 for the bytes that separate tokens. */
+static const uint8_t sep_class[256] = {[' '] = 1, ['\t'] = 1, ['\r'] = 1};
 
-static int tokenize(reader *r, const char *p, const char *end)
+/* Makes room for `more` tokens; 0, or -1 after reporting. */
+static int reserve_tokens(reader *r, size_t more)
 {
-    r->n_tok = 0;
-    while (p < end) {
-        while (p < end && sep_class[(unsigned char)*p] == 1)
-            p++;
-        if (p >= end || *p == '#')
-            break;
-        const char *start = p;
-        while (p < end && !sep_class[(unsigned char)*p])
-            p++;
-        if (r->n_tok == r->cap_tok) {
-            size_t cap = r->cap_tok ? 2 * r->cap_tok : 64;
-            token *t = realloc(r->tok, cap * sizeof *t);
-            if (!t) {
-                bc_diag_add(r->diag, BC_ERROR, r->file, r->line, 1, "out of memory");
-                return -1;
-            }
-            r->tok = t;
-            r->cap_tok = cap;
-        }
-        token *t = &r->tok[r->n_tok++];
-        t->s = start;
-        t->len = (size_t)(p - start);
-        t->col = (int32_t)(start - r->line_start) + 1;
+    if (r->n_tok + more <= r->cap_tok)
+        return 0;
+    size_t cap = r->cap_tok ? 2 * r->cap_tok : 64;
+    while (cap < r->n_tok + more)
+        cap *= 2;
+    token *t = realloc(r->tok, cap * sizeof *t);
+    if (!t) {
+        bc_diag_add(r->diag, BC_ERROR, r->file, r->line, 1, "out of memory");
+        return -1;
     }
+    r->tok = t;
+    r->cap_tok = cap;
     return 0;
 }
 
-/* The successors after `->`: NEXT [PROB [OUTCOME_REWARD]] ...; 0 or -1. */
+/* Opens a token at p. */
+static void token_open(reader *r, const char *p)
+{
+    token *t = &r->tok[r->n_tok++];
+    t->s = p;
+    t->col = (int32_t)(p - r->line_start) + 1;
+}
+
+/* Closes the oldest open token at p (tokens close in the order they open). */
+static void token_close(reader *r, size_t *closed, const char *p)
+{
+    token *t = &r->tok[(*closed)++];
+    t->len = (size_t)(p - t->s);
+}
+
+#if defined(__SSE2__)
+#include <emmintrin.h>
+/* For 64 bytes at p: bit i of *sep set when p[i] separates tokens (space,
+ * tab, CR), of *hash when it is '#', of *nul when it is NUL. */
+static void masks64(const char *p, uint64_t *sep, uint64_t *hash, uint64_t *nul)
+{
+    const __m128i sp = _mm_set1_epi8(' '), tab = _mm_set1_epi8('\t'), cr = _mm_set1_epi8('\r');
+    const __m128i hs = _mm_set1_epi8('#'), zero = _mm_setzero_si128();
+    *sep = *hash = *nul = 0;
+    for (int i = 0; i < 4; i++) {
+        __m128i v = _mm_loadu_si128((const __m128i *)(const void *)(p + 16 * i));
+        __m128i x = _mm_or_si128(_mm_or_si128(_mm_cmpeq_epi8(v, sp), _mm_cmpeq_epi8(v, tab)),
+                                 _mm_cmpeq_epi8(v, cr));
+        *sep |= (uint64_t)(uint16_t)_mm_movemask_epi8(x) << (16 * i);
+        *hash |= (uint64_t)(uint16_t)_mm_movemask_epi8(_mm_cmpeq_epi8(v, hs)) << (16 * i);
+        *nul |= (uint64_t)(uint16_t)_mm_movemask_epi8(_mm_cmpeq_epi8(v, zero)) << (16 * i);
+    }
+}
+#endif
+
+/* Splits one line [p, end) into tokens, stopping at '#', and finds its
+ * first NUL byte (*nul; NULL if none), which makes the line binary data.
+ * 64 bytes at a time where the buffer allows (SSE2): masks of the
+ * separators give the bytes where tokens open (a token byte after a
+ * separator) and close (a separator after a token byte), with no branch
+ * per byte.  0, or -1 after reporting. */
+static int tokenize(reader *r, const char *p, const char *end, const char **nul)
+{
+    r->n_tok = 0;
+    *nul = NULL;
+    size_t closed = 0;
+    int in_tok = 0;        /* the byte before p belongs to a token */
+    const char *cut = end; /* where tokens stop: the line's end, or its first '#' */
+#if defined(__SSE2__)
+    for (; p < end && p + 64 <= r->end; p += 64) {
+        if (reserve_tokens(r, 32) < 0)
+            return -1;
+        uint64_t sep, hash, zero;
+        masks64(p, &sep, &hash, &zero);
+        uint64_t past = end - p < 64 ? ~0ULL << (end - p) : 0; /* bytes after the line */
+        if (zero & ~past) {
+            *nul = p + __builtin_ctzll(zero & ~past);
+            return 0;
+        }
+        if (cut < end) /* in a comment: only NUL bytes matter now */
+            continue;
+        if (hash & ~past) {
+            cut = p + __builtin_ctzll(hash & ~past);
+            past |= ~0ULL << (cut - p);
+        }
+        sep |= past; /* past the line or in its comment: separators */
+        uint64_t word = ~sep, before = word << 1 | (uint64_t)in_tok;
+        for (uint64_t open = word & ~before; open; open &= open - 1)
+            token_open(r, p + __builtin_ctzll(open));
+        for (uint64_t close = sep & before; close; close &= close - 1)
+            token_close(r, &closed, p + __builtin_ctzll(close));
+        in_tok = (int)(word >> 63);
+    }
+#endif
+    for (; p < end; p++) { /* the end of the buffer, or no SSE2 */
+        if (*p == '\0') {
+            *nul = p;
+            return 0;
+        }
+        if (*p == '#' && cut == end)
+            cut = p;
+        int sep = p >= cut || sep_class[(unsigned char)*p];
+        if (!sep && !in_tok) {
+            if (reserve_tokens(r, 1) < 0)
+                return -1;
+            token_open(r, p);
+        } else if (sep && in_tok) {
+            token_close(r, &closed, p);
+        }
+        in_tok = !sep;
+    }
+    if (closed < r->n_tok)
+        token_close(r, &closed, cut);
+    return 0;
+}
+
+/* Successor `name` with a probability id and no outcome reward: a state
+ * already seen goes by its index (known >= 0), a new one is interned. */
+static int succ_by_id(reader *r, const token *name, int32_t known, uint32_t prob_id)
+{
+    bc_pos at = pos_of(r, name);
+    if (known < 0 && (known = bc_builder_state(r->b, name->s, name->len, at)) < 0)
+        return -1;
+    return bc_builder_succ_id(r->b, known, prob_id, at);
+}
+
+/* The successors after `->`: NEXT [PROB [OUTCOME_REWARD]] ...; 0 or -1.
+ * The checks and their order are those of the format; a name already
+ * known to the builder was checked when it was first seen. */
 static int successors(reader *r)
 {
     const token *t = r->tok;
@@ -207,19 +429,26 @@ static int successors(reader *r)
         n_succ += is_name_start(t[k].s[0]);
     for (size_t i = 4; i < n;) {
         const token *name = &t[i++];
-        if (expect_name(r, name, "a successor state") < 0)
+        /* A name first seen earlier on this line was interned since the lookup: ask again. */
+        int32_t known = name->known >= 0 ? name->known
+                                         : bc_builder_known_state(r->b, name->s, name->len);
+        if (known < 0 && expect_name(r, name, "a successor state") < 0)
             return -1;
-        bc_num prob, outcome;
+        bc_num outcome;
+        number prob = {.id = BC_NUM_ID_ONE};
         const bc_num *has_prob = NULL, *has_outcome = NULL;
         if (i < n && is_number_token(&t[i])) {
             const token *pt = &t[i++];
-            if (expect_number(r, pt, "a probability", &prob) < 0)
+            /* The value itself is needed only with an outcome reward (the slow form). */
+            int outcome_next = i < n && is_number_token(&t[i]);
+            if (expect_number_id(r, pt, "a probability", WANT_ID | (outcome_next ? WANT_VALUE : 0),
+                                 &prob) < 0)
                 return -1;
-            if (bc_num_sign(prob, bc_builder_bigtab(r->b)) < 0)
+            if (prob.sign < 0)
                 return report(r, pt, "a probability must not be negative; found `%.*s`", pt->s,
                               pt->len);
-            has_prob = &prob;
-            if (i < n && is_number_token(&t[i])) {
+            has_prob = &prob.value;
+            if (outcome_next) {
                 if (expect_number(r, &t[i++], "an outcome reward", &outcome) < 0)
                     return -1;
                 has_outcome = &outcome;
@@ -229,7 +458,10 @@ static int successors(reader *r)
                           "successor `%.*s` needs a probability: only a lone successor may omit it",
                           name->s, name->len);
         }
-        if (bc_builder_succ(r->b, name->s, name->len, has_prob, has_outcome, pos_of(r, name)) < 0)
+        int rc = has_outcome ? bc_builder_succ(r->b, name->s, name->len, has_prob, has_outcome,
+                                               pos_of(r, name))
+                             : succ_by_id(r, name, known, prob.id);
+        if (rc < 0)
             return -1;
     }
     return 0;
@@ -266,12 +498,12 @@ static int transition_line(reader *r)
                               pos_of(r, &t[1]), reward) < 0)
         return -1;
     /* Successor names are usually scattered over a large table: start all
-     * their lookups before resolving any, so the cache misses overlap. */
-    for (int stage = 0; stage < 2; stage++)
-        for (size_t k = 4; k < n; k++) {
-            if (is_name_start(t[k].s[0]))
-                bc_builder_prefetch_state(r->b, t[k].s, t[k].len, stage);
-        }
+     * their lookups before ending any, so the cache misses overlap. */
+    for (size_t k = 4; k < n; k++)
+        t[k].key = is_name_start(t[k].s[0]) ? bc_builder_seek_state(r->b, t[k].s, t[k].len) : 0;
+    for (size_t k = 4; k < n; k++)
+        t[k].known = is_name_start(t[k].s[0])
+                         ? bc_builder_found_state(r->b, t[k].s, t[k].len, t[k].key) : -1;
     int rc = successors(r);
     /* After an error the line is dropped whole: checking its sum would only add noise. */
     if (rc < 0) {
@@ -279,6 +511,80 @@ static int transition_line(reader *r)
         return -1;
     }
     return bc_builder_pair_end(r->b, pos_of(r, &t[0]));
+}
+
+/* 1 when t is a name (what expect_name accepts), without a message. */
+static int name_ok(const token *t)
+{
+    if (t->len > BC_NAME_MAX || !is_name_start(t->s[0]))
+        return 0;
+    for (size_t i = 1; i < t->len; i++)
+        if (!is_name_char(t->s[i]))
+            return 0;
+    return 1;
+}
+
+/* A transition line in its usual form, STATE ACTION REWARD -> followed by
+ * NEXT PROB pairs (or one NEXT alone), every name and number well formed:
+ * read with the checks such a line needs (a name already known needs none)
+ * and, when its probabilities are written over one denominator, summed
+ * here in two additions instead of by the builder.  Checks come before the
+ * builder hears of the line, so that any other line goes, untouched, to
+ * transition_line, which says what is wrong in the format's order.
+ * Returns 1 when the line was read, -1 when the builder refused it (and
+ * reported why, as it would have for transition_line), 0 to leave it to
+ * transition_line. */
+static int fast_transition(reader *r)
+{
+    token *t = r->tok;
+    size_t n = r->n_tok;
+    int lone = n == 5;
+    if (n < 5 || (!lone && n % 2) || !is_arrow(&t[3]) || !name_ok(&t[0]) || !name_ok(&t[1]))
+        return 0;
+    /* The numbers' cache entries and the successors' slots in the names
+     * table are fetched first, all of them, so that their cache misses
+     * overlap (a large model scatters them); the lookups follow. */
+    for (size_t k = 2; k < n; k += k == 2 ? 3 : 2) {
+        t[k].bucket = num_bucket(r, &t[k], t[k].nk);
+        __builtin_prefetch(t[k].bucket);
+    }
+    for (size_t k = 4; k < n; k += 2)
+        t[k].key = bc_builder_seek_state(r->b, t[k].s, t[k].len);
+    const char *why;
+    number x;
+    if (!is_number_token(&t[2]) || read_number_in(r, &t[2], t[2].bucket, t[2].nk, WANT_ID, &x, &why) < 0)
+        return 0;
+    uint32_t reward = x.id, den = lone ? 1 : 0;
+    uint64_t sum = lone;
+    int common = 1; /* every probability written over den */
+    for (size_t k = 5; !lone && k < n; k += 2) {
+        if (!is_number_token(&t[k]) ||
+            read_number_in(r, &t[k], t[k].bucket, t[k].nk, WANT_ID, &x, &why) < 0 || x.sign < 0)
+            return 0;
+        t[k].id = x.id;
+        if (k == 5)
+            den = x.wden;
+        common &= x.wden != 0 && x.wden == den;
+        sum += x.wnum;
+    }
+    for (size_t k = 4; k < n; k += 2) {
+        t[k].known = bc_builder_found_state(r->b, t[k].s, t[k].len, t[k].key);
+        if (t[k].known < 0 && !name_ok(&t[k]))
+            return 0;
+    }
+    if (bc_builder_pair_begin_id(r->b, t[0].s, t[0].len, pos_of(r, &t[0]), t[1].s, t[1].len,
+                                 pos_of(r, &t[1]), reward) < 0)
+        return -1;
+    for (size_t k = 4; k < n; k += 2) {
+        if (succ_by_id(r, &t[k], t[k].known, lone ? BC_NUM_ID_ONE : t[k + 1].id) < 0) {
+            bc_builder_pair_cancel(r->b);
+            return -1;
+        }
+    }
+    /* sum/den = the sum of the probabilities, exactly: one means one. */
+    if (common && sum == den)
+        return bc_builder_pair_end_summed(r->b, pos_of(r, &t[0])) < 0 ? -1 : 1;
+    return bc_builder_pair_end(r->b, pos_of(r, &t[0])) < 0 ? -1 : 1;
 }
 
 /* `states`, `actions`, `terminal`: KEYWORD NAME ... */
@@ -362,14 +668,18 @@ static int name_line(reader *r, const char *end)
 
 static int is_directive(const token *t)
 {
-    /* Every keyword starts with one of these letters and has 4 to 9 bytes;
-     * most lines are transition lines, which this turns away at once. */
-    if (t->len < 4 || t->len > 9 || !strchr("bndohitsa", t->s[0]))
+    /* Every keyword has 4 to 9 bytes; most lines are transition lines, which
+     * the length and the first letter turn away at once. */
+    static const struct {
+        const char *word;
+        size_t len;
+    } words[] = {{"bell", 4},    {"name", 4},     {"discount", 8}, {"objective", 9}, {"horizon", 7},
+                 {"initial", 7}, {"terminal", 8}, {"states", 6},   {"actions", 7}};
+    if (t->len < 4 || t->len > 9)
         return 0;
-    static const char *const words[] = {"bell", "name", "discount", "objective", "horizon",
-                                        "initial", "terminal", "states", "actions"};
     for (size_t i = 0; i < sizeof words / sizeof words[0]; i++)
-        if (token_is(t, words[i]))
+        if (t->len == words[i].len && t->s[0] == words[i].word[0] &&
+            memcmp(t->s, words[i].word, t->len) == 0)
             return 1;
     return 0;
 }
@@ -427,15 +737,15 @@ static int directive_line(reader *r, const char *end)
 static int read_line(reader *r, const char *p, const char *end)
 {
     r->line_start = p;
-    const char *nul = memchr(p, '\0', (size_t)(end - p));
+    const char *nul;
+    if (tokenize(r, p, end, &nul) < 0)
+        return -2;
     if (nul) {
         r->errors++;
         bc_diag_add(r->diag, BC_ERROR, r->file, r->line, (int32_t)(nul - p) + 1,
                     "binary data (a NUL byte); a model is UTF-8 text");
         return -2; /* stop: the rest is not text */
     }
-    if (tokenize(r, p, end) < 0)
-        return -2;
     if (r->n_tok == 0)
         return 0;
     int rc = 0;
@@ -446,46 +756,96 @@ static int read_line(reader *r, const char *p, const char *end)
     /* `name` takes the rest of its line as text, which may hold `->`. */
     for (size_t i = 1; i < r->n_tok && !is_transition && !token_is(&r->tok[0], "name"); i++)
         is_transition = is_arrow(&r->tok[i]);
-    if (is_transition)
-        rc = transition_line(r);
-    else
+    if (is_transition) {
+        rc = fast_transition(r);
+        rc = rc == 0 ? transition_line(r) : rc < 0 ? -1 : 0;
+    } else
         rc = directive_line(r, end);
     r->seen_content = 1;
     return rc;
 }
 
-bc_model *bc_read_bell_text(const char *buf, size_t len, const char *file_label, bc_diag *d)
+bc__bell_reader *bc__bell_reader_new(const char *file_label, bc_diag *d)
 {
-    reader r = {0};
-    r.file = file_label ? file_label : "<input>";
-    r.num_cache = calloc(NUM_CACHE, sizeof *r.num_cache);
-    r.diag = d;
-    r.b = bc_builder_new(r.file, d);
-    if (!r.b) {
-        free(r.num_cache);
-        bc_diag_add(d, BC_ERROR, r.file, 0, 0, "out of memory");
+    const char *file = file_label ? file_label : "<input>";
+    reader *r = calloc(1, sizeof *r);
+    if (r) {
+        r->file = file;
+        r->diag = d;
+        /* Buckets on cache lines; without a cache the reader is slower, not wrong. */
+        r->num_cache = aligned_alloc(64, 2 * NUM_BUCKETS * sizeof *r->num_cache);
+        if (r->num_cache)
+            memset(r->num_cache, 0, 2 * NUM_BUCKETS * sizeof *r->num_cache);
+        r->b = bc_builder_new(file, d);
+    }
+    if (!r || !r->b) {
+        if (r)
+            free(r->num_cache);
+        free(r);
+        bc_diag_add(d, BC_ERROR, file, 0, 0, "out of memory");
         return NULL;
     }
+    return r;
+}
+
+int64_t bc__bell_reader_lines(bc__bell_reader *r, const char *buf, size_t len, int last)
+{
+    if (r->stopped)
+        return -1;
     const char *p = buf, *end = buf + len;
-    r.end = end;
-    if (len >= 3 && (unsigned char)p[0] == 0xEF && (unsigned char)p[1] == 0xBB &&
-        (unsigned char)p[2] == 0xBF)
-        p += 3; /* UTF-8 byte-order mark */
-    int stop = 0;
-    while (p < end && !stop) {
+    r->end = end;
+    if (!r->started) {
+        if (len < 3 && !last)
+            return 0; /* too few bytes to tell a byte-order mark */
+        r->started = 1;
+        if (len >= 3 && (unsigned char)p[0] == 0xEF && (unsigned char)p[1] == 0xBB &&
+            (unsigned char)p[2] == 0xBF)
+            p += 3; /* UTF-8 byte-order mark */
+    }
+    while (p < end) {
         const char *eol = memchr(p, '\n', (size_t)(end - p));
-        if (!eol)
+        if (!eol) {
+            if (!last)
+                break; /* the rest comes with the next piece */
             eol = end;
-        r.line++;
-        if (read_line(&r, p, eol) == -2 || bc_diag_full(d))
-            stop = 1;
+        }
+        r->line++;
+        if (read_line(r, p, eol) == -2 || bc_diag_full(r->diag)) {
+            r->stopped = 1;
+            return -1;
+        }
         p = eol + 1;
     }
-    free(r.tok);
-    free(r.num_cache);
-    if (r.errors || stop) {
-        bc_builder_free(r.b);
+    return (p > end ? end : p) - buf;
+}
+
+void bc__bell_reader_free(bc__bell_reader *r)
+{
+    if (!r)
+        return;
+    bc_builder_free(r->b);
+    free(r->tok);
+    free(r->num_cache);
+    free(r);
+}
+
+bc_model *bc__bell_reader_finish(bc__bell_reader *r)
+{
+    if (r->errors || r->stopped) {
+        bc__bell_reader_free(r);
         return NULL;
     }
-    return bc_builder_finish(r.b, NULL);
+    bc_builder *b = r->b;
+    r->b = NULL;
+    bc__bell_reader_free(r); /* the token array and the cache go before the model is assembled */
+    return bc_builder_finish(b, NULL);
+}
+
+bc_model *bc_read_bell_text(const char *buf, size_t len, const char *file_label, bc_diag *d)
+{
+    bc__bell_reader *r = bc__bell_reader_new(file_label, d);
+    if (!r)
+        return NULL;
+    bc__bell_reader_lines(r, buf, len, 1);
+    return bc__bell_reader_finish(r);
 }

@@ -131,7 +131,11 @@ static int read_nonneg(cert_ctx *c, const cJSON *root, const char *key, double *
 static int read_head(cert_ctx *c, const cJSON *root, bc_certificate *cert)
 {
     const cJSON *mark = cJSON_GetObjectItemCaseSensitive(root, "bellcheck_certificate");
-    if (!cJSON_IsObject(root) || !cJSON_IsNumber(mark) || mark->valuedouble != 1)
+    char fb[64];
+    if (!cJSON_IsObject(root))
+        return fail(c, NULL, "not a bellcheck certificate: expected a JSON object, found %s",
+                    bc__json_found(root, fb, sizeof fb));
+    if (!cJSON_IsNumber(mark) || mark->valuedouble != 1)
         return fail(c, NULL, "not a bellcheck certificate (expected an object with "
                     "\"bellcheck_certificate\": 1)%s", NULL);
     const cJSON *model = cJSON_GetObjectItemCaseSensitive(root, "model");
@@ -159,6 +163,47 @@ static int read_head(cert_ctx *c, const cJSON *root, bc_certificate *cert)
     return 0;
 }
 
+/* Reports a problem of the document's text at byte offset off as label:line:col; NULL. */
+static cJSON *syntax_fail(cert_ctx *c, const char *buf, size_t len, size_t off, const char *what)
+{
+    int32_t line, col;
+    bc__json_line_col(buf, len, off, &line, &col);
+    bc_diag_add(c->d, BC_ERROR, c->label, line, col, "%s", what);
+    return NULL;
+}
+
+static size_t skip_space(const char *buf, size_t len, size_t off)
+{
+    while (off < len && (buf[off] == ' ' || buf[off] == '\t' || buf[off] == '\r' || buf[off] == '\n'))
+        off++;
+    return off;
+}
+
+/* The whole of buf[0..len) as one JSON document; NULL after reporting.  NUL
+ * characters in strings and deep nesting are refused before cJSON sees the
+ * text, as in the other JSON readers. */
+static cJSON *parse_document(cert_ctx *c, const char *buf, size_t len)
+{
+    if (skip_space(buf, len, 0) == len) { /* the whole file: no position */
+        bc_diag_add(c->d, BC_ERROR, c->label, 0, 0, "the file is empty: expected a certificate (JSON)");
+        return NULL;
+    }
+    size_t off = bc__json_nul_in_string(buf, len);
+    if (off < len)
+        return syntax_fail(c, buf, len, off, "a JSON string holds a NUL character");
+    if ((off = bc__json_depth_excess(buf, len)) < len) {
+        char msg[96];
+        snprintf(msg, sizeof msg, "JSON nested more than %d levels deep (a certificate needs 2)",
+                 BC__JSON_MAX_DEPTH);
+        return syntax_fail(c, buf, len, off, msg);
+    }
+    const char *why;
+    cJSON *root = bc__json_parse_whole(buf, len, &off, &why);
+    if (!root)
+        return syntax_fail(c, buf, len, off, why);
+    return root;
+}
+
 static int alloc_arrays(bc_certificate *cert, int32_t n)
 {
     size_t k = (size_t)(n ? n : 1);
@@ -175,26 +220,14 @@ static int alloc_arrays(bc_certificate *cert, int32_t n)
     return 0;
 }
 
-int bc_read_certificate(const char *path, const bc_model *m, bc_certificate *cert, bc_diag *d)
+int bc_read_certificate_mem(const char *buf, size_t len, const char *label, const bc_model *m,
+                            bc_certificate *cert, bc_diag *d)
 {
     memset(cert, 0, sizeof *cert);
-    cert_ctx c = {m, d, strcmp(path, "-") ? path : "<stdin>"};
-    char *buf;
-    size_t len;
-    if (bc_read_file(path, &buf, &len, d) < 0)
-        return -1;
-    const char *end = NULL;
-    cJSON *root = bc__json_nul_in_string(buf, len) < len ? NULL
-                                                          : cJSON_ParseWithLengthOpts(buf, len, &end, 0);
+    cert_ctx c = {m, d, label ? label : "<input>"};
+    cJSON *root = parse_document(&c, buf, len);
     int rc = -1;
-    if (!root) {
-        int32_t line, col;
-        size_t off = end && end >= buf && (size_t)(end - buf) <= len ? (size_t)(end - buf) : len;
-        bc__json_line_col(buf, len, off, &line, &col);
-        bc_diag_add(d, BC_ERROR, c.label, line, col,
-                    len == 0 ? "empty file: expected a certificate (JSON)"
-                             : "JSON syntax error (or a NUL character in a string)");
-    } else if ((rc = read_head(&c, root, cert)) == 0) {
+    if (root && (rc = read_head(&c, root, cert)) == 0) {
         if (alloc_arrays(cert, m->n_states) < 0)
             rc = fail(&c, NULL, "out of memory%s", NULL);
         else if (read_policy(&c, cJSON_GetObjectItemCaseSensitive(root, "policy"), cert) < 0 ||
@@ -202,8 +235,19 @@ int bc_read_certificate(const char *path, const bc_model *m, bc_certificate *cer
             rc = -1;
     }
     cJSON_Delete(root);
-    free(buf);
     if (rc != 0)
         bc_certificate_free(cert);
+    return rc;
+}
+
+int bc_read_certificate(const char *path, const bc_model *m, bc_certificate *cert, bc_diag *d)
+{
+    char *buf;
+    size_t len;
+    memset(cert, 0, sizeof *cert);
+    if (bc_read_file(path, &buf, &len, d) < 0)
+        return -1;
+    int rc = bc_read_certificate_mem(buf, len, strcmp(path, "-") ? path : "<stdin>", m, cert, d);
+    free(buf);
     return rc;
 }

@@ -34,6 +34,11 @@
 #include <string.h>
 
 #define NEST_MAX 200 /* nesting of parentheses and operators the parser follows */
+/* Operations on the longest path from the root of the tree to a leaf.  The
+ * parser nests at most NEST_MAX deep, but a chain such as x + x + ... + x
+ * builds a left-deep tree as long as the line, and flatten() recurses along
+ * it: without this bound a long enough line overflows the C stack. */
+#define HEIGHT_MAX 2000
 
 typedef enum { N_NUM, N_VAR, N_UN, N_BIN, N_FN, N_IF } node_kind;
 
@@ -45,6 +50,7 @@ typedef struct {
     int32_t arg[3];  /* children */
     int32_t n_args;
     int32_t col;     /* where the node's text starts */
+    int32_t height;  /* operations on the longest path down to a leaf (a leaf: 1) */
 } node;
 
 typedef enum { T_END, T_NUM, T_NAME, T_OP } tok_kind;
@@ -265,6 +271,7 @@ static int32_t new_node(parser *p, node_kind kind, int32_t op, int32_t col)
     n->kind = kind;
     n->op = op;
     n->col = col;
+    n->height = 1;
     return p->n_nodes++;
 }
 
@@ -305,6 +312,7 @@ static void fold(parser *p, int32_t i)
         n->kind = N_NUM;
         n->k = v;
         n->n_args = 0;
+        n->height = 1;
     }
 }
 
@@ -319,7 +327,13 @@ static int32_t op_node(parser *p, node_kind kind, int32_t op, int32_t col, int32
     n->arg[1] = b;
     n->arg[2] = c;
     n->n_args = n_args;
+    for (int32_t k = 0; k < n_args; k++)
+        if (p->nodes[n->arg[k]].height >= n->height)
+            n->height = p->nodes[n->arg[k]].height + 1;
     fold(p, i);
+    if (p->nodes[i].height > HEIGHT_MAX)
+        return fail(p, col, "the formula is too long: more than %d operations in a row "
+                    "(group the terms of a long sum or product in parentheses)", HEIGHT_MAX);
     return i;
 }
 

@@ -25,4 +25,9 @@ size_t bc__json_depth_excess(const char *buf, size_t len);
  * keeps strings NUL-terminated, so such a name would be cut short unseen. */
 size_t bc__json_nul_in_string(const char *buf, size_t len);
 
+/* Parses buf[0..len) as exactly one JSON document, blanks around it
+ * allowed.  NULL on failure, with the byte offset of the problem in *off
+ * (len when the document ends too early) and a message in *why. */
+cJSON *bc__json_parse_whole(const char *buf, size_t len, size_t *off, const char **why);
+
 #endif

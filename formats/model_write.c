@@ -164,10 +164,10 @@ PER_FORM void walk_succs(bc__outbuf *o, const bc__model_format *fmt, const bc_mo
         list_item(o, &spelling.succs[k], &count);
         fmt->name(o, bc_names_get(m->state_names, m->succ_state[t]));
         bc__outbuf_str(o, spelling.succ_prob[k]);
-        fmt->num(o, m->prob_exact[t]);
-        if (m->outcome_exact && bc_num_sign(m->outcome_exact[t], m->big) != 0) {
+        fmt->num(o, bc_model_prob_exact(m, t));
+        if (m->outcome_id && bc_num_sign(bc_model_outcome_exact(m, t), m->big) != 0) {
             bc__outbuf_str(o, spelling.succ_outcome[k]);
-            fmt->num(o, m->outcome_exact[t]);
+            fmt->num(o, bc_model_outcome_exact(m, t));
         }
     }
     assert(count > 0); /* a pair has at least one successor */
@@ -187,7 +187,7 @@ PER_FORM void walk_pairs(bc__outbuf *o, const bc__model_format *fmt, const bc_mo
         bc__outbuf_str(o, spelling.pair_action[k]);
         fmt->name(o, bc_names_get(m->action_names, m->pair_action[p]));
         bc__outbuf_str(o, spelling.pair_reward[k]);
-        fmt->num(o, m->reward_exact[p]);
+        fmt->num(o, bc_model_reward_exact(m, p));
         bc__outbuf_str(o, spelling.pair_next[k]);
         walk_succs(o, fmt, m, p, k);
         bc__outbuf_str(o, spelling.pair_end[k]);

@@ -20,6 +20,7 @@
 
 #include <math.h>
 #include <stdarg.h>
+#include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -709,11 +710,18 @@ bc_task *bc_task_read_text(const char *buf, size_t len, const char *file_label, 
     r.t->limit = 10000;
     r.t->discount_exact = bc_num_int(1);
     r.t->discount = 1;
+    if (len >= INT32_MAX) { /* lines and columns are 32-bit: refused before any is counted */
+        fail(&r, NULL, "the file holds %zu bytes; a task file must be smaller than 2 GiB", len);
+        bc_task_free(r.t);
+        return NULL;
+    }
     each_line(&r, buf, len, 1);
     if (r.errors == 0)
         each_line(&r, buf, len, 2); /* formulas would only repeat declaration errors */
-    if (r.errors == 0 && r.first_line == 0)
+    if (r.errors == 0 && r.first_line == 0) {
+        r.line = 0; /* the whole file: no line to point at */
         fail(&r, NULL, "the file is empty: expected a task");
+    }
     else if (r.errors == 0)
         check_complete(&r);
     if (r.errors) {

@@ -33,31 +33,58 @@ void bc_exact_opts_default(bc_exact_opts *o)
     o->max_seconds = 0;
 }
 
+/* The fewest bytes one entry of an exact factor holds: its mpq_t, the two
+ * limb blocks behind it with malloc's headers, its column index. */
+#define BC_EXACT_ENTRY_BYTES 68
+/* The fewest bytes per entry of the dense lifting: the integer matrix and its
+ * LU factors modulo a prime (FLINT), each a machine word per entry. */
+#define BC_DENSE_ENTRY_BYTES 16
+
 /* Auto: sparse elimination while its factor stays within a few times the
  * matrix (then its fractions stay small too); past that, the fill is the
  * sign of a graph that looks random, where lifting is far cheaper
- * (docs/methods.md has the measurements). */
+ * (docs/methods.md has the measurements).  The memory limit (--max-memory)
+ * caps the factor's entries and refuses a dense matrix that would not fit:
+ * BC__QSYS_OVER_LIMIT with the refusal in why. */
 static int solve_system(const bc__qsys *A, const bc_exact_opts *o, mpq_t *x, int32_t *bad,
-                        int64_t *fill)
+                        int64_t *fill, char *why, size_t cap)
 {
-    int64_t nnz = A->row_start[A->n];
-    int st = BC__QSYS_TOO_BIG;
+    int64_t nnz = A->row_start[A->n], n = A->n;
+    uint64_t limit = bc_memory_limit_get();
+    int st = BC__QSYS_TOO_BIG, capped = 0;
     if (o->solver != BC_EXACT_LU_DENSE) {
         int64_t budget = o->max_fill ? o->max_fill : BC_EXACT_DEFAULT_FILL;
         /* Sparse elimination pays while U stays a small multiple of A and far
          * from dense (measured: docs/methods.md). */
-        int64_t n = A->n, sparse_limit = 4 * nnz + 1000;
+        int64_t sparse_limit = 4 * nnz + 1000;
         if (n * n / 32 + 1000 < sparse_limit)
             sparse_limit = n * n / 32 + 1000;
         if (o->solver == BC_EXACT_LU_AUTO && sparse_limit < budget)
             budget = sparse_limit;
+        if (limit && (uint64_t)budget > limit / BC_EXACT_ENTRY_BYTES)
+            budget = (int64_t)(limit / BC_EXACT_ENTRY_BYTES), capped = 1;
+        const double t0 = bc__exact_now();
         st = bc__qsys_solve(A, x, budget, o->max_seconds, bad, fill);
+        capped = capped && !(o->max_seconds > 0 && bc__exact_now() - t0 > o->max_seconds);
+        int no_dense = o->solver == BC_EXACT_LU_SPARSE ||
+                       n > (o->max_dense ? o->max_dense : BC_EXACT_DEFAULT_DENSE);
+        char what[160];
+        snprintf(what, sizeof what, "exact elimination of %lld equations (a factor of more than "
+                 "%lld entries)", (long long)n, (long long)budget);
+        if (st == BC__QSYS_TOO_BIG && capped && no_dense &&
+            bc_memory_refused(0, (uint64_t)(budget + 1) * BC_EXACT_ENTRY_BYTES, what, why, cap))
+            return BC__QSYS_OVER_LIMIT;
         if (st != BC__QSYS_TOO_BIG || o->solver == BC_EXACT_LU_SPARSE)
             return st;
     }
-    if (A->n > (o->max_dense ? o->max_dense : BC_EXACT_DEFAULT_DENSE))
+    if (A->n > (o->max_dense ? o->max_dense : BC_EXACT_DEFAULT_DENSE) || bc_stop_requested())
         return BC__QSYS_TOO_BIG;
-    *fill = (int64_t)A->n * A->n;
+    char what[160];
+    snprintf(what, sizeof what, "exact evaluation by dense lifting (%lld equations, %lld matrix "
+             "entries)", (long long)n, (long long)(n * n));
+    if (bc_memory_refused(0, (uint64_t)(n * n) * BC_DENSE_ENTRY_BYTES, what, why, cap))
+        return BC__QSYS_OVER_LIMIT;
+    *fill = n * n;
     return bc__qsys_solve_dense(A, x, bad);
 }
 
@@ -66,7 +93,7 @@ void bc__exact_pair_q(const bc_model *m, int sgn, const mpq_t g, const mpq_t *v,
 {
     mpq_set_ui(out, 0, 1);
     for (int64_t t = m->pair_trans_start[p]; t < m->pair_trans_start[p + 1]; t++) {
-        bc_num_to_mpq(tmp, m->prob_exact[t], m->big);
+        bc_num_to_mpq(tmp, bc_model_prob_exact(m, t), m->big);
         mpq_mul(tmp, tmp, v[m->succ_state[t]]);
         mpq_add(out, out, tmp);
     }
@@ -145,7 +172,7 @@ int bc__qvec_pair_cmp(const bc_model *m, int sgn, const mpq_t g, const bc__qvec 
     mpz_set_ui(w->acc_num, 0);
     mpz_set_ui(w->acc_den, 1);
     for (int64_t t = m->pair_trans_start[p]; t < m->pair_trans_start[p + 1]; t++) {
-        bc_num_to_mpq(w->q, m->prob_exact[t], m->big);
+        bc_num_to_mpq(w->q, bc_model_prob_exact(m, t), m->big);
         mpz_set(w->pn, mpq_numref(w->q));
         mpz_set(w->pd, mpq_denref(w->q));
         acc_add(w, v->x[m->succ_state[t]]);
@@ -243,7 +270,7 @@ static int build_system(const bc_model *m, int sgn, const mpq_t g, const policy_
                     A->col[e] = j;
                     slot[j] = e++;
                 }
-                bc_num_to_mpq(t, m->prob_exact[k], m->big);
+                bc_num_to_mpq(t, bc_model_prob_exact(m, k), m->big);
                 mpq_mul(t, t, w);
                 mpq_sub(A->val[slot[j]], A->val[slot[j]], t);
             }
@@ -281,8 +308,10 @@ static int evaluate(const bc_model *m, int sgn, const mpq_t g, const policy_ref 
     }
     if (build_system(m, sgn, g, pol, sys_of, state_of, n, &A) < 0 || !(x = mpq_array(n)))
         goto out;
-    int st = solve_system(&A, o, x, &bad, fill);
-    if (st == BC__QSYS_OK) {
+    int st = solve_system(&A, o, x, &bad, fill, why, cap);
+    if (st == BC__QSYS_OVER_LIMIT) {
+        rc = 1; /* why says it */
+    } else if (st == BC__QSYS_OK) {
         for (int32_t i = 0; i < n; i++)
             mpq_swap(v[state_of[i]], x[i]);
         rc = 0;

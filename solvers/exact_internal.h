@@ -32,7 +32,8 @@ int bc__qsys_alloc(bc__qsys *A, int32_t n, int64_t cap);
 void bc__qsys_free(bc__qsys *A); /* clears every mpq_t and frees the arrays */
 
 /* Outcomes of bc__qsys_solve. */
-enum { BC__QSYS_OK = 0, BC__QSYS_NOMEM = -1, BC__QSYS_SINGULAR = -2, BC__QSYS_TOO_BIG = -3 };
+enum { BC__QSYS_OK = 0, BC__QSYS_NOMEM = -1, BC__QSYS_SINGULAR = -2, BC__QSYS_TOO_BIG = -3,
+       BC__QSYS_OVER_LIMIT = -4 /* refused by the memory limit (--max-memory), nothing allocated */ };
 
 /* Solves A x = rhs exactly by Gaussian elimination without pivoting in a
  * fill-reducing symmetric order (AMD on the pattern of A + A^T).  Without

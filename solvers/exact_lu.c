@@ -326,10 +326,10 @@ int bc__qsys_solve(const bc__qsys *A, mpq_t *x, int64_t max_fill, double max_sec
         st = eliminate_row(A, perm[k], k, inv, &u, acc, mark, list, heap, y, l, t);
         if (st == BC__QSYS_SINGULAR)
             *bad_row = perm[k];
-        else if (st == BC__QSYS_OK && (u.len > max_fill ||
+        else if (st == BC__QSYS_OK && (u.len > max_fill || bc_stop_requested() ||
                                        (max_seconds > 0 &&
                                         bc__exact_now() - t0 > max_seconds)))
-            st = BC__QSYS_TOO_BIG;
+            st = BC__QSYS_TOO_BIG; /* (a stop request: the caller sees bc_stop_requested) */
     }
     if (st == BC__QSYS_OK)
         back_substitute(&u, n, perm, y, acc, x, t); /* acc reused as x in elimination order */

@@ -122,9 +122,14 @@ static int rounding_honoured(void)
 int bc__enclosure_build(const bc_model *m, int sgn, bc__enclosure *e)
 {
     memset(e, 0, sizeof *e);
-    if (!rounding_honoured())
+    if (!rounding_honoured()) {
+        snprintf(e->why, sizeof e->why, "the rounding mode is not honoured here (an emulator?)");
         return -2;
+    }
     size_t nt = (size_t)(m->n_trans ? m->n_trans : 1), np = (size_t)(m->n_pairs ? m->n_pairs : 1);
+    if (bc_memory_refused(0, 16 * (uint64_t)(nt + np), "the interval enclosures of the model",
+                          e->why, sizeof e->why))
+        return -2;
     e->plo = malloc(nt * sizeof(double));
     e->phi = malloc(nt * sizeof(double));
     e->rlo = malloc(np * sizeof(double));
@@ -138,10 +143,10 @@ int bc__enclosure_build(const bc_model *m, int sgn, bc__enclosure *e)
     fesetround(FE_DOWNWARD);
     int64_t slow = 0;
     for (int64_t t = 0; t < m->n_trans; t++)
-        if (enclose_small(m->prob_exact[t], &e->plo[t], &e->phi[t]) < 0)
+        if (enclose_small(bc_model_prob_exact(m, t), &e->plo[t], &e->phi[t]) < 0)
             e->plo[t] = NAN, slow++;
     for (int64_t p = 0; p < m->n_pairs; p++)
-        if (m->outcome_exact || enclose_small(m->reward_exact[p], &e->rlo[p], &e->rhi[p]) < 0)
+        if (m->outcome_id || enclose_small(bc_model_reward_exact(m, p), &e->rlo[p], &e->rhi[p]) < 0)
             e->rlo[p] = NAN, slow++;
     fesetround(FE_TONEAREST);
     /* Pass 2, to nearest: exact rationals through GMP. */
@@ -149,7 +154,7 @@ int bc__enclosure_build(const bc_model *m, int sgn, bc__enclosure *e)
     mpq_inits(x, t, NULL);
     for (int64_t k = 0; slow && k < m->n_trans; k++)
         if (isnan(e->plo[k])) {
-            bc_num_to_mpq(x, m->prob_exact[k], m->big);
+            bc_num_to_mpq(x, bc_model_prob_exact(m, k), m->big);
             enclose_mpq(x, t, &e->plo[k], &e->phi[k]);
         }
     for (int64_t p = 0; slow && p < m->n_pairs; p++)

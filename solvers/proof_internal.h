@@ -24,11 +24,13 @@ typedef struct {
     double *plo, *phi; /* [n_trans] */
     double *rlo, *rhi; /* [n_pairs] */
     double glo, ghi;
+    char why[256];     /* after -2 from bc__enclosure_build: why no interval proof is made */
 } bc__enclosure;
 
 /* Builds the enclosures of m (discount g: m's own); 0, -1 if out of memory,
- * -2 when this machine (or an emulator) does not honour the rounding mode,
- * so that no interval proof can be trusted. */
+ * -2 when no interval proof can be made, e->why saying why: this machine (or
+ * an emulator) does not honour the rounding mode, so that no interval proof
+ * can be trusted, or the arrays would pass the memory limit (--max-memory). */
 int bc__enclosure_build(const bc_model *m, int sgn, bc__enclosure *e);
 void bc__enclosure_free(bc__enclosure *e);
 

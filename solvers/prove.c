@@ -302,7 +302,9 @@ static int prove_interval(const bc_model *m, bc_solution *sol, bc_proof_result *
     bc__enclosure e;
     int built = bc__enclosure_build(m, sgn, &e);
     if (built == -2) {
-        proof_none(out, "no interval proof: the rounding mode is not honoured here (an emulator?)");
+        char why[240];
+        snprintf(why, sizeof why, "no interval proof: %.200s", e.why); /* fits out->message */
+        proof_none(out, why);
         return 0;
     }
     if (built < 0)

@@ -45,6 +45,8 @@ void bc_score_free(bc_score *s)
     free(s->state_regret);
     free(s->traps);
     free(s->by_regret);
+    free(s->acts);
+    s->acts = NULL;
     s->agent_prob = s->values = s->state_regret = NULL;
     s->traps = s->by_regret = NULL;
     s->n_traps = 0;
@@ -209,7 +211,7 @@ static int32_t fill_uncovered(const bc_model *mg, const uint8_t *present, uint8_
 
 /* The model restricted to the allowed pairs, with the stuck states made
  * terminal and the objective reversed.  Shallow: names, initial
- * distribution and big numbers are mg's; only the arrays below are owned. */
+ * distribution, exact values and big numbers are mg's; only the arrays below are owned. */
 typedef struct {
     bc_model m;
     int64_t *orig_pair; /* [m.n_pairs] the pair of mg each pair comes from */
@@ -219,7 +221,7 @@ static void restricted_free(restricted_model *r)
 {
     free(r->m.state_pair_start), free(r->m.pair_state), free(r->m.pair_action);
     free(r->m.pair_trans_start), free(r->m.succ_state), free(r->m.prob), free(r->m.reward);
-    free(r->m.prob_exact), free(r->m.reward_exact), free(r->m.outcome_exact);
+    free(r->m.prob_id), free(r->m.reward_id), free(r->m.outcome_id);
     free(r->m.terminal), free(r->orig_pair);
 }
 
@@ -236,15 +238,15 @@ static int restricted_alloc(const bc_model *mg, int64_t np, int64_t nt, restrict
     r->m.succ_state = malloc(zt * sizeof *r->m.succ_state);
     r->m.prob = malloc(zt * sizeof *r->m.prob);
     r->m.reward = malloc(zp * sizeof *r->m.reward);
-    r->m.prob_exact = malloc(zt * sizeof *r->m.prob_exact);
-    r->m.reward_exact = malloc(zp * sizeof *r->m.reward_exact);
-    r->m.outcome_exact = mg->outcome_exact ? malloc(zt * sizeof *r->m.outcome_exact) : NULL;
+    r->m.prob_id = malloc(zt * sizeof *r->m.prob_id);
+    r->m.reward_id = malloc(zp * sizeof *r->m.reward_id);
+    r->m.outcome_id = mg->outcome_id ? malloc(zt * sizeof *r->m.outcome_id) : NULL;
     r->m.pair_line = NULL;
     r->m.terminal = malloc(ns ? ns : 1);
     r->orig_pair = malloc(zp * sizeof *r->orig_pair);
     if (!r->m.state_pair_start || !r->m.pair_state || !r->m.pair_action ||
         !r->m.pair_trans_start || !r->m.succ_state || !r->m.prob || !r->m.reward ||
-        !r->m.prob_exact || !r->m.reward_exact || (mg->outcome_exact && !r->m.outcome_exact) ||
+        !r->m.prob_id || !r->m.reward_id || (mg->outcome_id && !r->m.outcome_id) ||
         !r->m.terminal || !r->orig_pair) {
         restricted_free(r);
         return -1;
@@ -273,14 +275,14 @@ static int restricted_build(const bc_model *mg, const uint8_t *allowed, const ui
             r->m.pair_state[q] = s;
             r->m.pair_action[q] = mg->pair_action[p];
             r->m.reward[q] = mg->reward[p];
-            r->m.reward_exact[q] = mg->reward_exact[p];
+            r->m.reward_id[q] = mg->reward_id[p];
             r->m.pair_trans_start[q++] = k;
             for (int64_t t = mg->pair_trans_start[p]; t < mg->pair_trans_start[p + 1]; t++, k++) {
                 r->m.succ_state[k] = mg->succ_state[t];
                 r->m.prob[k] = mg->prob[t];
-                r->m.prob_exact[k] = mg->prob_exact[t];
-                if (mg->outcome_exact)
-                    r->m.outcome_exact[k] = mg->outcome_exact[t];
+                r->m.prob_id[k] = mg->prob_id[t];
+                if (mg->outcome_id)
+                    r->m.outcome_id[k] = mg->outcome_id[t];
             }
         }
     }
@@ -476,43 +478,90 @@ static double optimal_gap_tol(const bc_model *mg, const bc_solution *opt, double
     return 2.0 * b + bc_sv_backup_error(mg, &sc, vmax);
 }
 
-/* 1 when every pair the agent uses in s is optimal (see optimal_gap_tol). */
-static int acts_optimally(const bc_model *mg, const bc_score *out, int32_t s, double tol)
+/* The verdict on state s from the floating-point optimum (see
+ * optimal_gap_tol): suboptimal when a pair the agent uses has a computed gap
+ * beyond what the errors explain; optimal when every pair it uses beats each
+ * other pair of s by more than twice the error of a computed Q~ (g b + e
+ * each), so no V* within the bound can make another pair as good; else
+ * undecided (a tie, or a gap within the error). */
+static bc_act_verdict float_verdict(const bc_model *mg, const bc_score *out, int32_t s,
+                                    double gap_tol, double q_err)
 {
     const double sgn = bc_sv_sign(mg), *vstar = out->optimum.values;
-    for (int64_t p = mg->state_pair_start[s]; p < mg->state_pair_start[s + 1]; p++)
-        if (out->agent_prob[p] > 0.0 &&
-            !(sgn * (vstar[s] - q_star(mg, vstar, p)) <= tol + 1e-15 * fabs(vstar[s])))
-            return 0;
-    return 1;
+    const double slack = 1e-15 * fabs(vstar[s]);
+    double first = -INFINITY, second = -INFINITY; /* the two largest sgn Q~ of s */
+    int64_t arg = -1;
+    for (int64_t p = mg->state_pair_start[s]; p < mg->state_pair_start[s + 1]; p++) {
+        double q = sgn * q_star(mg, vstar, p);
+        if (q > first)
+            second = first, first = q, arg = p;
+        else if (q > second)
+            second = q;
+    }
+    int proven = 1;
+    for (int64_t p = mg->state_pair_start[s]; p < mg->state_pair_start[s + 1]; p++) {
+        if (!(out->agent_prob[p] > 0.0))
+            continue;
+        double q = sgn * q_star(mg, vstar, p);
+        if (!(sgn * vstar[s] - q <= gap_tol + slack))
+            return BC_ACT_SUBOPTIMAL;
+        proven &= p == arg && first - second > 2.0 * q_err + slack;
+    }
+    return proven ? BC_ACT_OPTIMAL : BC_ACT_UNDECIDED;
 }
 
-/* agreement_states, agreement_weighted, n_wrong over the covered
- * non-terminal states.  A trap never agrees: its value is -inf whatever its
- * pairs' Q* say (a zero-reward loop can tie with the optimum).  The weights
- * are the expected discounted visits; traps, which have none (their
- * visits are infinite at discount 1), are left out of the weighted share. */
-static void agreement(const bc_model *mg, const uint8_t *present, const uint8_t *trap,
-                      const double *visits, bc_score *out)
+/* The verdict per covered non-terminal state into out->acts: exactly from
+ * the exact optimum when there is one (score_proof.c), else by the
+ * floating-point test above. */
+static int act_verdicts(const bc_model *mg, const uint8_t *present, double vmax, bc_score *out)
+{
+    int rc = bc_sc_decide_exact(mg, present, out);
+    if (rc <= 0)
+        return rc;
+    bc_sv_scales sc;
+    bc_sv_scales_of(mg, &sc);
+    const double b = out->optimum.bound >= 0 ? out->optimum.bound : BC_UNPROVEN_TOL * fmax(1.0, vmax);
+    const double e = bc_sv_backup_error(mg, &sc, vmax);
+    const double gap_tol = optimal_gap_tol(mg, &out->optimum, vmax);
+    for (int32_t s = 0; s < mg->n_states; s++)
+        out->acts[s] = mg->terminal[s] || !present[s]
+                           ? BC_ACT_NONE
+                           : float_verdict(mg, out, s, gap_tol, mg->discount * b + e);
+    return 0;
+}
+
+/* agreement_states, agreement_weighted, n_wrong and n_undecided over the
+ * covered non-terminal states.  A state agrees unless its verdict is
+ * suboptimal or it is a trap: a trap's value is -inf whatever its pairs' Q*
+ * say (a zero-reward loop can tie with the optimum).  The weights are the
+ * expected discounted visits; traps, which have none (their visits are
+ * infinite at discount 1), are left out of the weighted share.  0, or -1
+ * when out of memory. */
+static int agreement(const bc_model *mg, const uint8_t *present, const uint8_t *trap,
+                     const double *visits, bc_score *out)
 {
     double vmax = 0.0;
     for (int32_t s = 0; s < mg->n_states; s++)
         vmax = fmax(vmax, fabs(out->optimum.values[s]));
-    const double tol = optimal_gap_tol(mg, &out->optimum, vmax);
+    if (act_verdicts(mg, present, vmax, out) < 0)
+        return -1;
     int32_t covered = 0, agree = 0;
     double w_all = 0.0, w_agree = 0.0;
+    out->n_undecided = 0;
     for (int32_t s = 0; s < mg->n_states; s++) {
         if (mg->terminal[s] || !present[s])
             continue;
-        int ok = !(trap && trap[s]) && acts_optimally(mg, out, s, tol);
+        int ok = !(trap && trap[s]) && out->acts[s] != BC_ACT_SUBOPTIMAL;
         covered++;
         agree += ok;
+        out->n_undecided += out->acts[s] == BC_ACT_UNDECIDED;
         w_all += visits[s];
         w_agree += ok ? visits[s] : 0.0;
     }
     out->n_wrong = covered - agree;
     out->agreement_states = covered > 0 ? (double)agree / covered : NAN;
     out->agreement_weighted = w_all > 0.0 ? w_agree / w_all : NAN;
+    return 0;
 }
 
 /* ------------------------------------------------------------------------ */
@@ -613,7 +662,8 @@ static int alloc_arrays(const bc_model *mg, bc_score *out)
     out->values = calloc(n, sizeof *out->values);
     out->state_regret = calloc(n, sizeof *out->state_regret);
     out->by_regret = calloc(n, sizeof *out->by_regret);
-    if (out->agent_prob && out->values && out->state_regret && out->by_regret)
+    out->acts = calloc(n, sizeof *out->acts);
+    if (out->agent_prob && out->values && out->state_regret && out->by_regret && out->acts)
         return 0;
     snprintf(out->message, sizeof out->message, "score: out of memory for %d states",
              (int)mg->n_states);
@@ -676,7 +726,10 @@ static int compare(const bc_model *mg, const bc_qtable *q, const bc_policy *pol,
         snprintf(out->message, sizeof out->message, "score: out of memory");
         goto done;
     }
-    agreement(mg, present, trap, visits, out);
+    if (agreement(mg, present, trap, visits, out) < 0) {
+        snprintf(out->message, sizeof out->message, "score: out of memory");
+        goto done;
+    }
     if (q && q_statistics(mg, q, g_q, n_uncovered, out) < 0)
         goto done;
     if (bc_sc_prove_figures(mg, q, g_q, trap, out) < 0 || sort_by_regret(mg, out) < 0)

@@ -79,6 +79,11 @@ int bc_sc_prove_optimum(const bc_model *m, const bc_prove_opts *po, bc_score *ou
  * pass at discount < 1.  Call before the regrets are computed.  0 or -1. */
 int bc_sc_prove_agent(const bc_model *m, const uint8_t *trap, const bc_prove_opts *po,
                       bc_score *out);
+/* With an exact optimum: out->acts decided exactly, BC_ACT_OPTIMAL where every
+ * pair the agent uses in a covered non-terminal state has Q*(s,a) = V*(s)
+ * as rationals, BC_ACT_SUBOPTIMAL where one falls short.  0 done; 1 when
+ * the optimum is not exact (nothing set); -1 when out of memory. */
+int bc_sc_decide_exact(const bc_model *m, const uint8_t *present, bc_score *out);
 /* After the regrets and the Q-table statistics: exact regrets (when both
  * sides are exact: state_regret, regret_initial and regret_max_state are
  * replaced by the doubles nearest them) or their interval bounds; the

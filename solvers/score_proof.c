@@ -191,6 +191,44 @@ static void regrets_exact(const bc_model *m, const uint8_t *trap, bc_score *out)
     mpq_clears(r, best, NULL);
 }
 
+int bc_sc_decide_exact(const bc_model *m, const uint8_t *present, bc_score *out)
+{
+    if (!out->optimum_proof.has_exact)
+        return 1;
+    const int sgn = m->objective == BC_MIN ? -1 : 1;
+    bc__qvec v; /* V* over one denominator, so each comparison needs no big gcd */
+    if (bc__qvec_from_mpq(&v, (const mpq_t *)out->optimum_proof.exact.values, m->n_states, sgn) < 0) {
+        bc__qvec_free(&v);
+        return -1;
+    }
+    bc__qscratch w;
+    bc__qscratch_init(&w);
+    mpq_t g;
+    mpq_init(g);
+    bc_num_to_mpq(g, m->discount_exact, m->big);
+    for (int32_t s = 0; s < m->n_states; s++) {
+        out->acts[s] = BC_ACT_NONE;
+        if (m->terminal[s] || !present[s])
+            continue;
+        out->acts[s] = BC_ACT_OPTIMAL;
+        for (int64_t p = m->state_pair_start[s]; p < m->state_pair_start[s + 1]; p++) {
+            if (!(out->agent_prob[p] > 0.0))
+                continue;
+            int c = bc__qvec_pair_cmp(m, sgn, g, &v, p, &w); /* sign of Q*(p) - V*(s) */
+            if (c < 0) {
+                out->acts[s] = BC_ACT_SUBOPTIMAL;
+                break;
+            }
+            if (c > 0) /* cannot happen for a proven optimum; claim nothing */
+                out->acts[s] = BC_ACT_UNDECIDED;
+        }
+    }
+    mpq_clear(g);
+    bc__qscratch_clear(&w);
+    bc__qvec_free(&v);
+    return 0;
+}
+
 /* A difference of two proven numbers: the bounds add, plus the rounding of
  * the subtraction (half an ulp of the result, taken as a whole ulp). */
 static bc_proof sum_of(bc_proof a, bc_proof b, double x)

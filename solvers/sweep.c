@@ -12,6 +12,21 @@
  * same sequence of floating-point operations whichever thread runs it, and
  * the reductions are min and max, which are exact; so every result is
  * bit-for-bit that of one thread.
+ *
+ * What costs is the gathers v[succ[k]]: once the value vector no longer
+ * fits the core's own cache (1.6 MB at 200,000 states against a 2 MiB L2
+ * that the streamed arrays also pass through), each one waits on the
+ * shared cache or on memory, and one core keeps only a few such misses in
+ * flight.  So the loop asks for data ahead of use, with prefetch hints
+ * that change no result (docs/performance.md has the measurements):
+ *  - the successor value GATHER_AHEAD transitions ahead, into the nearest
+ *    cache, so that many gathers are in flight at once;
+ *  - per pair, the line of probabilities and of successor indices
+ *    STREAM_AHEAD transitions ahead, as non-temporal, so that the streamed
+ *    arrays are read once without pushing the values out of the core's
+ *    cache.
+ * Indices ahead are clamped to the last transition: every address read is
+ * inside the arrays (the successor index of a hint is a real load).
  */
 #include <math.h>
 
@@ -40,20 +55,53 @@ double bc__sweep_bytes(const bc_model *m)
            (double)m->n_states * (sizeof(int64_t) + sizeof(uint8_t) + 2 * sizeof(double));
 }
 
-/* The best Q-value of state s and its first pair. */
-static inline double backup(const int64_t *restrict pstart, const int64_t *restrict tstart,
-                            const int32_t *restrict succ, const double *restrict prob,
-                            const double *restrict reward, double sgn, double g,
-                            const double *restrict v, int32_t s, int64_t *arg)
+/* Prefetch distances, in transitions (measured; see the comment above). */
+enum { GATHER_AHEAD = 24, STREAM_AHEAD = 128 };
+
+#if defined(__GNUC__)
+#define HINT_NEAR(addr) __builtin_prefetch((addr), 0, 3)  /* into every cache level */
+#define HINT_ONCE(addr) __builtin_prefetch((addr), 0, 0)  /* non-temporal: read once */
+#else
+#define HINT_NEAR(addr) ((void)(addr))
+#define HINT_ONCE(addr) ((void)(addr))
+#endif
+
+/* The arrays one sweep reads, and the index of the last transition (the
+ * read-ahead stops there). */
+typedef struct {
+    const int64_t *restrict pstart, *restrict tstart;
+    const int32_t *restrict succ;
+    const double *restrict prob, *restrict reward;
+    int64_t last;
+    double sgn, g;
+} sweep_arrays;
+
+/* The best Q-value of non-terminal state s and its first pair: for each
+ * pair in order, acc = sum of prob[k] v[succ[k]] in the order of k, then
+ * q = sgn r + g acc; a pair replaces the best only when strictly greater.
+ * The hints change no value. */
+static inline double backup(const sweep_arrays *a, const double *restrict v, int32_t s,
+                            int64_t *arg)
 {
-    int64_t p = pstart[s], end = pstart[s + 1];
+    const int64_t *restrict tstart = a->tstart;
+    const int32_t *restrict succ = a->succ;
+    const double *restrict prob = a->prob;
+    const int64_t last = a->last;
+    int64_t p = a->pstart[s], end = a->pstart[s + 1];
     double best = -INFINITY;
     int64_t at = p;
     for (; p < end; p++) {
+        const int64_t k0 = tstart[p], k1 = tstart[p + 1];
+        const int64_t ahead = k0 + STREAM_AHEAD < last ? k0 + STREAM_AHEAD : last;
+        HINT_ONCE(&prob[ahead]);
+        HINT_ONCE(&succ[ahead]);
         double acc = 0.0;
-        for (int64_t k = tstart[p]; k < tstart[p + 1]; k++)
+        for (int64_t k = k0; k < k1; k++) {
+            const int64_t next = k + GATHER_AHEAD < last ? k + GATHER_AHEAD : last;
+            HINT_NEAR(&v[succ[next]]);
             acc += prob[k] * v[succ[k]];
-        double q = sgn * reward[p] + g * acc;
+        }
+        double q = a->sgn * a->reward[p] + a->g * acc;
         if (q > best) {
             best = q;
             at = p;
@@ -66,11 +114,9 @@ static inline double backup(const int64_t *restrict pstart, const int64_t *restr
 void bc__sweep_jacobi(const bc_model *m, double sgn, const double *v, double *tv, int64_t *policy,
                       int threads, bc__sweep_stat *st)
 {
-    const int64_t *restrict pstart = m->state_pair_start, *restrict tstart = m->pair_trans_start;
-    const int32_t *restrict succ = m->succ_state;
-    const double *restrict prob = m->prob, *restrict reward = m->reward;
+    const sweep_arrays a = {m->state_pair_start, m->pair_trans_start, m->succ_state, m->prob,
+                            m->reward, m->n_trans - 1, sgn, m->discount};
     const uint8_t *restrict term = m->terminal;
-    const double g = m->discount;
     const int32_t n = m->n_states;
     double lo = INFINITY, hi = -INFINITY, vmax = 0.0;
     int nt = bc__sweep_threads(threads);
@@ -81,15 +127,15 @@ void bc__sweep_jacobi(const bc_model *m, double sgn, const double *v, double *tv
         double t = 0.0;
         int64_t arg = -1;
         if (!term[s])
-            t = backup(pstart, tstart, succ, prob, reward, sgn, g, v, s, &arg);
+            t = backup(&a, v, s, &arg);
         if (policy)
             policy[s] = arg;
         double d = t - v[s];
         tv[s] = t;
         lo = d < lo ? d : lo;
         hi = d > hi ? d : hi;
-        double a = fmax(fabs(t), fabs(v[s]));
-        vmax = a > vmax ? a : vmax;
+        double av = fmax(fabs(t), fabs(v[s]));
+        vmax = av > vmax ? av : vmax;
     }
     st->dmin = n ? lo : 0.0;
     st->dmax = n ? hi : 0.0;

@@ -110,8 +110,7 @@ static int verify_interval(const bc_model *m, const bc_certificate *c, bc_verdic
         free(v);
         free(margin);
         if (built == -2)
-            return bad(out, -1, "cannot check: the rounding mode is not honoured here "
-                       "(an emulator?)%s%s", "", "");
+            return bad(out, -1, "cannot check: %.200s%s", e.why, "");
         return -1;
     }
     for (int32_t s = 0; s < m->n_states; s++)

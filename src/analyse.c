@@ -12,7 +12,7 @@
 
 static int positive(const bc_model *m, int64_t t)
 {
-    return bc_num_sign(m->prob_exact[t], m->big) > 0;
+    return bc_num_sign(bc_model_prob_exact(m, t), m->big) > 0;
 }
 
 /* Collects the indices where flag[s] == want into a new array. */
@@ -126,8 +126,8 @@ done:
 /* 1 when the expected reward of pair p is exactly zero. */
 static int zero_reward(const bc_model *m, int64_t p)
 {
-    if (!m->outcome_exact)
-        return bc_num_sign(m->reward_exact[p], m->big) == 0;
+    if (!m->outcome_id)
+        return bc_num_sign(bc_model_reward_exact(m, p), m->big) == 0;
     if (m->reward[p] != 0)
         return 0; /* reward[p] is the exact sum rounded once: non-zero means non-zero */
     mpq_t r;

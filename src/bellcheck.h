@@ -71,6 +71,26 @@ char *bc_num_text(bc_num x, const bc_bigtab *big);
 char *bc_mpq_text(const mpq_t x);
 /* Lowest-terms "p/q" (or "p" for integers) into buf; returns the full length. */
 size_t bc_num_format_fraction(char *buf, size_t cap, bc_num x, const bc_bigtab *big);
+/* 1 when x[0..n) are small, non-negative and sum to exactly 1, decided in 128-bit
+ * integers over a common denominator; 0 when they do not or when that cannot decide
+ * (big values, a denominator past 2^62): then sum them with bc_num_add. */
+int bc_num_sum_is_one(const bc_num *x, int64_t n);
+
+/* Distinct exact numbers behind 32-bit ids (a model repeats a few probabilities
+ * and rewards millions of times).  Id 0 is 0 and id 1 is 1; equal small values
+ * written alike share an id, every big value gets its own. */
+typedef struct bc_numtab bc_numtab;
+
+#define BC_NUM_ID_ZERO 0u
+#define BC_NUM_ID_ONE 1u
+
+bc_numtab *bc_numtab_new(void);                      /* holds 0 and 1; NULL if out of memory */
+void bc_numtab_free(bc_numtab *t);                   /* NULL is allowed */
+int64_t bc_numtab_intern(bc_numtab *t, bc_num x);    /* the id of x, added if new; -1 if out of memory or ids */
+bc_num bc_numtab_get(const bc_numtab *t, uint32_t id); /* the value of an id */
+uint32_t bc_numtab_count(const bc_numtab *t);        /* ids given so far */
+const bc_num *bc_numtab_values(const bc_numtab *t);  /* [count] the values by id; moves when one is added */
+void bc_numtab_compact(bc_numtab *t);                /* frees spare room and the lookup hash (rebuilt by the next intern) */
 
 /* ------------------------------------------------------------------------ */
 /* Diagnostics                                                              */
@@ -95,7 +115,8 @@ typedef struct {
     int n, cap;
     int n_errors, n_warnings, n_dropped;
     int max_errors;
-    uint64_t max_memory; /* bytes one reading may hold (--max-memory); 0 = no limit (the default) */
+    uint64_t max_memory; /* bytes one reading may hold (--max-memory); 0 = the process-wide
+                          * bc_memory_limit_get() (no limit by default) */
 } bc_diag;
 
 void bc_diag_init(bc_diag *d);                 /* empty list, max_errors 20 */
@@ -105,8 +126,19 @@ int bc_diag_add(bc_diag *d, bc_severity sev, const char *file, int32_t line, int
                 const char *fmt, ...) __attribute__((format(printf, 6, 7)));
 int bc_diag_full(const bc_diag *d);            /* 1 when max_errors errors are held */
 void bc_diag_print(const bc_diag *d, FILE *f); /* "file:line:col: error: message" lines */
-/* 0 when holding `bytes` for `what` fits d->max_memory; else 1 after reporting the refusal against file. */
+/* 0 when holding `bytes` for `what` fits d->max_memory (when 0: the process-wide
+ * limit below); else 1 after reporting the refusal against file. */
 int bc_diag_memory_refused(bc_diag *d, const char *file, uint64_t bytes, const char *what);
+/* The process-wide memory limit, for code that has no bc_diag (the solvers):
+ * bytes, 0 = none (the default).  Set it once, before any work starts. */
+void bc_memory_limit_set(uint64_t bytes);
+uint64_t bc_memory_limit_get(void);
+/* 0 when `bytes` for `what` fit `limit` (0: the process-wide limit); else 1 after
+ * writing "WHAT needs X, more than the memory limit of Y (--max-memory)" into buf[cap]. */
+int bc_memory_refused(uint64_t limit, uint64_t bytes, const char *what, char *buf, size_t cap);
+/* The fewest bytes a model of these counts holds: its solver arrays alone
+ * (indices, doubles), names and exact numbers aside.  Saturates. */
+uint64_t bc_model_bytes_min(int64_t n_states, int64_t n_pairs, int64_t n_trans);
 
 /* ------------------------------------------------------------------------ */
 /* Name tables                                                              */
@@ -122,9 +154,11 @@ void bc_names_free(bc_names *t);                                /* NULL is allow
 int32_t bc_names_intern(bc_names *t, const char *s, size_t len); /* index of s, adding it if new; -1 on out of memory */
 int32_t bc_names_find(const bc_names *t, const char *s, size_t len); /* index of s, or -1 */
 const char *bc_names_get(const bc_names *t, int32_t i);         /* NUL-terminated name i */
-/* Hint that s will be looked up soon: stage 0 fetches its slot, stage 1 (later) its text.
- * Issuing both stages for all names of a line overlaps their cache misses. */
-void bc_names_prefetch(const bc_names *t, const char *s, size_t len, int stage);
+/* A lookup in two steps, so that the cache misses of several overlap: seek
+ * starts it (fetching where s would be) and returns a key, found ends it with
+ * the index of s or -1, as bc_names_find.  The table must not change in between. */
+uint64_t bc_names_seek(const bc_names *t, const char *s, size_t len);
+int32_t bc_names_found(const bc_names *t, const char *s, size_t len, uint64_t key);
 int32_t bc_names_count(const bc_names *t);                      /* number of names */
 /* New table with the names in the order perm[0], perm[1], ... (perm holds old indices). */
 bc_names *bc_names_permuted(const bc_names *t, const int32_t *perm);
@@ -142,8 +176,11 @@ typedef enum { BC_MAX = 0, BC_MIN = 1 } bc_objective;
  *    every other state has at least one;
  *  - successors of pair p are pair_trans_start[p] .. pair_trans_start[p+1]-1,
  *    in the order written; a successor may repeat;
- *  - prob_exact of one pair sums to exactly 1; prob is its double image;
- *  - reward[p] = reward_exact[p] + sum_t prob[t] * outcome_exact[t] (doubles). */
+ *  - the exact probabilities of one pair sum to exactly 1; prob is their double image;
+ *  - reward[p] = reward_exact(p) + sum_t prob[t] * outcome_exact(t) (doubles);
+ *  - every id is below bc_numtab_count(values).
+ * Exact numbers are ids into `values` (read them with bc_model_prob_exact and
+ * its siblings below); `big` holds the big rationals those values refer to. */
 typedef struct bc_model {
     char *name;
     int32_t n_states;
@@ -166,9 +203,10 @@ typedef struct bc_model {
     double *prob;              /* [n_trans] */
     double *reward;            /* [n_pairs] expected immediate reward */
 
-    bc_num *prob_exact;        /* [n_trans] */
-    bc_num *reward_exact;      /* [n_pairs] the REWARD column as written */
-    bc_num *outcome_exact;     /* [n_trans] extra reward of each outcome; NULL when all are zero */
+    uint32_t *prob_id;         /* [n_trans] exact probability: an id into values */
+    uint32_t *reward_id;       /* [n_pairs] the REWARD column as written: an id into values */
+    uint32_t *outcome_id;      /* [n_trans] extra reward of each outcome; NULL when all are zero */
+    bc_numtab *values;         /* the distinct exact numbers the ids name */
     int32_t *pair_line;        /* [n_pairs] source line of the pair; NULL when not from a text file */
 
     uint8_t *terminal;         /* [n_states] 1 for absorbing states */
@@ -184,9 +222,16 @@ typedef struct bc_model {
 } bc_model;
 
 /* Allocates a model with every array sized for the given counts and zeroed
- * (outcome_exact and pair_line left NULL).  NULL if out of memory. */
+ * (every exact number 0; outcome_id and pair_line left NULL).  NULL if out of memory. */
 bc_model *bc_model_alloc(int32_t n_states, int32_t n_actions, int64_t n_pairs, int64_t n_trans);
 void bc_model_free(bc_model *m);                 /* frees everything; NULL is allowed */
+bc_num bc_model_prob_exact(const bc_model *m, int64_t t);    /* exact probability of transition t */
+bc_num bc_model_reward_exact(const bc_model *m, int64_t p);  /* REWARD column of pair p, as written */
+bc_num bc_model_outcome_exact(const bc_model *m, int64_t t); /* outcome reward of transition t (0 if none) */
+/* Setters for models made by hand: x must live in m->big if big.  0, or -1 if out of memory. */
+int bc_model_set_prob_exact(bc_model *m, int64_t t, bc_num x);
+int bc_model_set_reward_exact(bc_model *m, int64_t p, bc_num x);
+int bc_model_set_outcome_exact(bc_model *m, int64_t t, bc_num x); /* allocates outcome_id at first use */
 /* Returns NULL when the invariants hold, else a static description of the first violation. */
 const char *bc_model_check_invariants(const bc_model *m);
 /* Exact expected reward of pair p (base reward plus outcome rewards) into an initialised mpq_t. */
@@ -230,7 +275,8 @@ void bc_builder_free(bc_builder *b);                            /* discards ever
 bc_bigtab *bc_builder_bigtab(bc_builder *b);                     /* where parsed numbers must live */
 int32_t bc_builder_state(bc_builder *b, const char *name, size_t len, bc_pos at);  /* state index (interned); -1 on error */
 int32_t bc_builder_action(bc_builder *b, const char *name, size_t len, bc_pos at); /* action index (interned); -1 on error */
-void bc_builder_prefetch_state(bc_builder *b, const char *name, size_t len, int stage); /* see bc_names_prefetch */
+uint64_t bc_builder_seek_state(bc_builder *b, const char *name, size_t len); /* see bc_names_seek */
+int32_t bc_builder_found_state(bc_builder *b, const char *name, size_t len, uint64_t key); /* see bc_names_found */
 /* Directives: each returns 0, or -1 after reporting the problem (repeated directive, bad value). */
 int bc_builder_name(bc_builder *b, const char *text, size_t len, bc_pos at);
 int bc_builder_discount(bc_builder *b, bc_num g, bc_pos at);
@@ -254,6 +300,16 @@ int bc_builder_pair_begin(bc_builder *b, const char *state, size_t slen, bc_pos 
 int bc_builder_succ(bc_builder *b, const char *name, size_t len, const bc_num *prob,
                     const bc_num *outcome, bc_pos at);
 int bc_builder_pair_end(bc_builder *b, bc_pos at);
+/* Faster forms for a reader that keeps its own caches (the .bell text reader): */
+bc_numtab *bc_builder_values(bc_builder *b); /* the table that ids given to the builder refer to */
+int32_t bc_builder_known_state(bc_builder *b, const char *name, size_t len); /* index of a state already seen, or -1 (reports nothing) */
+/* bc_builder_pair_begin with the reward as an id. */
+int bc_builder_pair_begin_id(bc_builder *b, const char *state, size_t slen, bc_pos state_at,
+                             const char *action, size_t alen, bc_pos action_at, uint32_t reward_id);
+/* bc_builder_succ for a state index and a probability id (a value >= 0) with no outcome reward. */
+int bc_builder_succ_id(bc_builder *b, int32_t state, uint32_t prob_id, bc_pos at);
+/* bc_builder_pair_end when the caller has proven that the line's probabilities sum to exactly 1. */
+int bc_builder_pair_end_summed(bc_builder *b, bc_pos at);
 void bc_builder_pair_cancel(bc_builder *b); /* drops the open line (after an error was reported) */
 /* Sorts, checks and returns the model (NULL if any error was reported);
  * the builder is freed in both cases.  default_name NULL: the file label's
@@ -528,6 +584,9 @@ int bc_write_certificate(FILE *f, const bc_model *m, const bc_certificate *c);
 /* Reads a certificate for m from path ("-" = standard input).  0; -1 when it
  * is malformed (errors in d); -2 when it belongs to another model (d says). */
 int bc_read_certificate(const char *path, const bc_model *m, bc_certificate *c, bc_diag *d);
+/* The same on bytes in memory, buf[0..len) (no final NUL needed); label names them in messages. */
+int bc_read_certificate_mem(const char *buf, size_t len, const char *label, const bc_model *m,
+                            bc_certificate *c, bc_diag *d);
 
 /* What bc_verify_certificate found. */
 typedef struct {
@@ -601,6 +660,15 @@ typedef struct {
 
 void bc_score_opts_default(bc_score_opts *o); /* model's discounts, ties by action order */
 
+/* Whether the actions an agent takes in one state are optimal by Q* (bc_score.acts; the test
+ * is in docs/methods.md, "Agreement").  Traps are listed apart (bc_score.traps). */
+typedef enum {
+    BC_ACT_NONE = 0,        /* terminal, or not covered by the agent's file */
+    BC_ACT_OPTIMAL = 1,     /* proven: every pair it uses has Q*(s,a) = V*(s) */
+    BC_ACT_SUBOPTIMAL = 2,  /* proven: a pair it uses has Q*(s,a) below V*(s) (above, for min) */
+    BC_ACT_UNDECIDED = 3    /* the proof's error is wider than the gap: a near or exact tie */
+} bc_act_verdict;
+
 /* Everything `score` reports.  Values are in the model's own sign (costs for
  * objective min); regrets are >= 0 and measured in the direction of the
  * objective (V* - V for max, V - V* for min).  A trap state's value is
@@ -628,6 +696,8 @@ typedef struct {
     int32_t *traps;            /* [n_traps] */
     double reach_probability;  /* discount 1: probability the agent reaches a terminal state from the initial distribution */
     int32_t n_wrong;           /* covered non-terminal states whose agent action is not optimal */
+    uint8_t *acts;             /* [n_states] a bc_act_verdict per state, decided with the proven V* */
+    int32_t n_undecided;       /* covered non-terminal states whose verdict is BC_ACT_UNDECIDED */
     int32_t *by_regret;        /* [n_states] state indices sorted by decreasing regret (for --top) */
     /* Proofs (kind none when nothing is proven).  The bound of each is on
      * |printed figure - true figure|. */
@@ -894,8 +964,9 @@ int bc_svg_policy_map(FILE *f, const bc_model *m, const bc_layout *l, const int6
 /* Values per state as a heat map with a colour bar (a line plot for a strip). */
 int bc_svg_value_map(FILE *f, const bc_model *m, const bc_layout *l, const double *values,
                      const char *title, const char *value_label);
-/* A scored agent: its actions; cells where it acts otherwise than the optimal
- * policy and loses value marked and shaded by their regret; traps outlined. */
+/* A scored agent: its actions; cells where an action it takes is proven
+ * suboptimal (s->acts) marked and shaded by their regret, undecided ones
+ * marked apart; traps outlined. */
 int bc_svg_agent_map(FILE *f, const bc_model *m, const bc_layout *l, const bc_score *s,
                      const char *title);
 /* One simulated trajectory: n_points states of l->n_vars values each, in the
@@ -934,6 +1005,11 @@ typedef struct {
     const char *size_label;  /* x-axis label, e.g. "cell width / range" */
 } bc_convergence;
 int bc_svg_convergence(FILE *f, const bc_convergence *c);
+/* A solve's convergence history (bc_solution.trace): per iteration its residual and proven
+ * bound on a logarithmic axis, the methods in the title, name (may be NULL) and notes under
+ * the plot; a policy-iteration history after a value-iteration one continues its count. */
+int bc_svg_residual(FILE *f, const bc_trace_point *trace, int64_t n, int64_t stride,
+                    const char *name);
 
 /* Files of a picture directory: name, and what fills it. */
 typedef struct {
@@ -945,8 +1021,9 @@ typedef struct {
  * dir appears whole (built beside it and renamed), an existing one receives
  * its files only when all were written.  0, or -1 after reporting into d. */
 int bc_svg_write_dir(const char *dir, const bc_svg_file *files, int32_t n, bc_diag *d);
-/* The pictures of a solve (policy.svg, value.svg) or of a score (agent.svg,
- * policy.svg, value.svg) into dir, as bc_svg_write_dir does.  0 or -1. */
+/* The pictures of a solve (policy.svg, value.svg, and residual.svg when the
+ * solution has a history) or of a score (agent.svg, policy.svg, value.svg)
+ * into dir, as bc_svg_write_dir does.  0 or -1. */
 int bc_report_svg_solve(const char *dir, const bc_model *m, const bc_layout *l,
                         const bc_solution *sol, bc_diag *d);
 int bc_report_svg_score(const char *dir, const bc_model *m, const bc_layout *l, const bc_score *s,
@@ -1113,6 +1190,10 @@ int bc_report_refine_json(FILE *f, const bc_task *t, const bc_refine *r, const b
  * trajectories.svg over the plane `slice` of that grid (docs/pictures.md).  0 or -1. */
 int bc_report_svg_refine(const char *dir, const bc_task *t, const bc_refine *r, const char *slice,
                          bc_diag *d);
+/* The one-file HTML page of a refinement study (docs/pictures.md): the verdict, one row per
+ * grid with its proof kind, the convergence plot and trajectories inline.  0, or -1 on a write error. */
+int bc_report_html_refine(FILE *f, const bc_task *t, const bc_refine *r, const bc_refine_opts *o,
+                          const char *source, const char *slice);
 
 #ifdef __cplusplus
 }

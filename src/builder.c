@@ -92,9 +92,10 @@ bc_builder *bc_builder_new(const char *file_label, bc_diag *d)
     b->diag = d;
     b->file = strdup(file_label ? file_label : "<input>");
     b->big = bc_bigtab_new();
+    b->values = bc_numtab_new();
     b->states.names = bc_names_new();
     b->actions.names = bc_names_new();
-    if (!b->file || !b->big || !b->states.names || !b->actions.names) {
+    if (!b->file || !b->big || !b->values || !b->states.names || !b->actions.names) {
         bc_builder_free(b);
         return NULL;
     }
@@ -118,6 +119,7 @@ void bc_builder_free(bc_builder *b)
     free(b->file);
     free(b->label);
     bc_bigtab_free(b->big);
+    bc_numtab_free(b->values);
     nameset_free(&b->states);
     nameset_free(&b->actions);
     free(b->terminal_at);
@@ -133,6 +135,7 @@ void bc_builder_free(bc_builder *b)
     free(b->t_succ);
     free(b->t_prob);
     free(b->t_outcome);
+    free(b->line_prob);
     free(b->renorm_lines);
     free(b);
 }
@@ -140,6 +143,16 @@ void bc_builder_free(bc_builder *b)
 bc_bigtab *bc_builder_bigtab(bc_builder *b)
 {
     return b->big;
+}
+
+bc_numtab *bc_builder_values(bc_builder *b)
+{
+    return b->values;
+}
+
+int32_t bc_builder_known_state(bc_builder *b, const char *name, size_t len)
+{
+    return bc_names_find(b->states.names, name, len);
 }
 
 /* 1 when name[0..len) matches [A-Za-z_][A-Za-z0-9_.:-]* and is at most BC_NAME_MAX bytes.
@@ -210,9 +223,14 @@ int32_t bc_builder_state(bc_builder *b, const char *name, size_t len, bc_pos at)
     return nameset_intern(b, &b->states, name, len, at);
 }
 
-void bc_builder_prefetch_state(bc_builder *b, const char *name, size_t len, int stage)
+uint64_t bc_builder_seek_state(bc_builder *b, const char *name, size_t len)
 {
-    bc_names_prefetch(b->states.names, name, len, stage);
+    return bc_names_seek(b->states.names, name, len);
+}
+
+int32_t bc_builder_found_state(bc_builder *b, const char *name, size_t len, uint64_t key)
+{
+    return bc_names_found(b->states.names, name, len, key);
 }
 
 int32_t bc_builder_action(bc_builder *b, const char *name, size_t len, bc_pos at)

@@ -48,7 +48,9 @@ struct bc_builder {
     char *file;   /* label used in messages */
     bc_diag *diag;
     bc_bigtab *big;
+    bc_numtab *values; /* the distinct exact numbers; raw ids below point here */
     int n_errors; /* errors this builder reported */
+    int over_limit; /* --max-memory refused growing the arrays: later pairs are dropped unreported */
 
     bc_linecol seen[BC_DIR_COUNT];
     int seen_flag[BC_DIR_COUNT];
@@ -70,18 +72,21 @@ struct bc_builder {
     bc_linecol init_at;
     int32_t init_renorm_line; /* line of a renormalised `initial` (-1 if it has none), 0 if not */
 
-    /* Raw pairs, in input order. */
+    /* Raw pairs, in input order (p_reward: ids into values). */
     int32_t *p_state, *p_action, *p_line, *p_col;
-    bc_num *p_reward;
+    uint32_t *p_reward;
     int64_t *p_trans_start; /* [n_pairs + 1] */
     int64_t n_pairs, cap_pairs;
     int pair_open;
     int32_t line_succ, line_missing_prob; /* successors on the open line, and those without a probability */
 
-    /* Raw successors. t_outcome is allocated at the first non-zero outcome reward. */
+    /* Raw successors (ids into values). t_outcome is allocated at the first
+     * non-zero outcome reward. */
     int32_t *t_succ;
-    bc_num *t_prob, *t_outcome;
+    uint32_t *t_prob, *t_outcome;
     int64_t n_trans, cap_trans;
+    bc_num *line_prob; /* [cap_line] the open line's probabilities, for its sum */
+    int64_t cap_line;
 
     int32_t *renorm_lines;
     int64_t n_renorm, cap_renorm;

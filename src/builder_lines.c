@@ -145,6 +145,24 @@ static int grow_raw(void **arr, int64_t new_cap, size_t sz)
     return 0;
 }
 
+/* --max-memory (docs/limits.md), when the raw arrays are about to double:
+ * a model of twice the pairs and transitions held so far needs at least
+ * bc_model_bytes_min of them.  1 after reporting a refusal (once). */
+static int over_limit(bc_builder *b, bc_pos at)
+{
+    char what[200], msg[400];
+    if (b->over_limit)
+        return 1;
+    int64_t pairs = 2 * (b->n_pairs + 1), trans = 2 * (b->n_trans + 1);
+    snprintf(what, sizeof what, "growing the model to %lld state-action pairs and %lld transitions",
+             (long long)pairs, (long long)trans);
+    uint64_t bytes = bc_model_bytes_min(bc_names_count(b->states.names), pairs, trans);
+    if (!bc_memory_refused(b->diag->max_memory, bytes, what, msg, sizeof msg))
+        return 0;
+    b->over_limit = 1;
+    return bc__builder_report(b, BC_ERROR, at, "%s", msg), 1;
+}
+
 /* Makes room for one more raw pair. */
 static int reserve_pair(bc_builder *b)
 {
@@ -162,8 +180,8 @@ static int reserve_pair(bc_builder *b)
     return 0;
 }
 
-int bc_builder_pair_begin(bc_builder *b, const char *state, size_t slen, bc_pos state_at,
-                          const char *action, size_t alen, bc_pos action_at, bc_num reward)
+int bc_builder_pair_begin_id(bc_builder *b, const char *state, size_t slen, bc_pos state_at,
+                             const char *action, size_t alen, bc_pos action_at, uint32_t reward_id)
 {
     assert(!b->pair_open);
     int32_t s = bc_builder_state(b, state, slen, state_at);
@@ -172,6 +190,8 @@ int bc_builder_pair_begin(bc_builder *b, const char *state, size_t slen, bc_pos 
         return -1;
     if (b->n_pairs >= INT32_MAX)
         return bc__builder_report(b, BC_ERROR, state_at, "too many state-action pairs");
+    if (b->n_pairs + 1 >= b->cap_pairs && over_limit(b, state_at))
+        return -1;
     if (reserve_pair(b) < 0)
         return bc__builder_report(b, BC_ERROR, state_at, "out of memory");
     int64_t p = b->n_pairs;
@@ -179,11 +199,27 @@ int bc_builder_pair_begin(bc_builder *b, const char *state, size_t slen, bc_pos 
     b->p_action[p] = a;
     b->p_line[p] = state_at.line;
     b->p_col[p] = state_at.col;
-    b->p_reward[p] = reward;
+    b->p_reward[p] = reward_id;
     b->p_trans_start[p] = b->n_trans;
     b->pair_open = 1;
     b->line_succ = 0;
     b->line_missing_prob = 0;
+    return 0;
+}
+
+int bc_builder_pair_begin(bc_builder *b, const char *state, size_t slen, bc_pos state_at,
+                          const char *action, size_t alen, bc_pos action_at, bc_num reward)
+{
+    /* The reward is interned after the names: the checks of a line come in that order. */
+    if (bc_builder_pair_begin_id(b, state, slen, state_at, action, alen, action_at,
+                                 BC_NUM_ID_ZERO) < 0)
+        return -1;
+    int64_t rid = bc_numtab_intern(b->values, reward);
+    if (rid < 0) {
+        bc_builder_pair_cancel(b);
+        return bc__builder_report(b, BC_ERROR, state_at, "out of memory");
+    }
+    b->p_reward[b->n_pairs] = (uint32_t)rid;
     return 0;
 }
 
@@ -202,6 +238,27 @@ static int reserve_trans(bc_builder *b)
     return 0;
 }
 
+/* Appends successor s with probability and outcome ids to the open line. */
+static int append_succ(bc_builder *b, int32_t s, uint32_t pid, uint32_t oid, bc_pos at)
+{
+    if (b->n_trans >= b->cap_trans && over_limit(b, at))
+        return -1;
+    if (reserve_trans(b) < 0)
+        return bc__builder_report(b, BC_ERROR, at, "out of memory");
+    if (oid != BC_NUM_ID_ZERO && !b->t_outcome) {
+        b->t_outcome = calloc((size_t)b->cap_trans, sizeof *b->t_outcome); /* zeroed: BC_NUM_ID_ZERO */
+        if (!b->t_outcome)
+            return bc__builder_report(b, BC_ERROR, at, "out of memory");
+    }
+    int64_t t = b->n_trans++;
+    b->t_succ[t] = s;
+    b->t_prob[t] = pid;
+    if (b->t_outcome)
+        b->t_outcome[t] = oid;
+    b->line_succ++;
+    return 0;
+}
+
 int bc_builder_succ(bc_builder *b, const char *name, size_t len, const bc_num *prob,
                     const bc_num *outcome, bc_pos at)
 {
@@ -209,25 +266,31 @@ int bc_builder_succ(bc_builder *b, const char *name, size_t len, const bc_num *p
     int32_t s = bc_builder_state(b, name, len, at);
     if (s < 0)
         return -1;
-    if (reserve_trans(b) < 0)
+    int64_t pid = prob ? bc_numtab_intern(b->values, *prob) : BC_NUM_ID_ONE;
+    /* An outcome of 0 takes id 0 (as if none were written) whatever its spelling. */
+    int64_t oid = outcome && bc_num_sign(*outcome, b->big) != 0
+                      ? bc_numtab_intern(b->values, *outcome) : BC_NUM_ID_ZERO;
+    if (pid < 0 || oid < 0)
         return bc__builder_report(b, BC_ERROR, at, "out of memory");
-    if (outcome && bc_num_sign(*outcome, b->big) != 0 && !b->t_outcome) {
-        b->t_outcome = calloc((size_t)b->cap_trans, sizeof *b->t_outcome);
-        if (!b->t_outcome)
-            return bc__builder_report(b, BC_ERROR, at, "out of memory");
-        for (int64_t t = 0; t < b->cap_trans; t++)
-            b->t_outcome[t].den = 1;
-    }
-    int64_t t = b->n_trans++;
-    b->t_succ[t] = s;
-    b->t_prob[t] = prob ? *prob : bc_num_int(1);
-    if (b->t_outcome)
-        b->t_outcome[t] = outcome ? *outcome : bc_num_int(0);
+    if (append_succ(b, s, (uint32_t)pid, (uint32_t)oid, at) < 0)
+        return -1;
     if (prob && bc_num_sign(*prob, b->big) < 0)
         bc__builder_report(b, BC_ERROR, at, "a probability must not be negative");
-    b->line_succ++;
     if (!prob)
         b->line_missing_prob++;
+    return 0;
+}
+
+int bc_builder_succ_id(bc_builder *b, int32_t state, uint32_t prob_id, bc_pos at)
+{
+    assert(b->pair_open && state >= 0);
+    int64_t t = b->n_trans;
+    if (t >= b->cap_trans || b->t_outcome) /* growing, or outcomes to keep: the general path */
+        return append_succ(b, state, prob_id, BC_NUM_ID_ZERO, at);
+    b->t_succ[t] = state;
+    b->t_prob[t] = prob_id;
+    b->n_trans = t + 1;
+    b->line_succ++;
     return 0;
 }
 
@@ -245,16 +308,42 @@ int bc_builder_pair_end(bc_builder *b, bc_pos at)
                                   "this line has %d successors, so each needs a probability "
                                   "(only a lone successor may omit it)",
                                   (int)b->line_succ);
+    int64_t n = b->n_trans - first;
+    if (n > b->cap_line) {
+        if (bc__resize((void **)&b->line_prob, 0, n, sizeof *b->line_prob) < 0)
+            return bc__builder_report(b, BC_ERROR, at, "out of memory");
+        b->cap_line = n;
+    }
+    const bc_num *val = bc_numtab_values(b->values);
+    for (int64_t k = 0; k < n; k++)
+        b->line_prob[k] = val[b->t_prob[first + k]];
     int renorm = 0;
-    if (bc__check_distribution(b, b->t_prob + first, b->n_trans - first, at,
-                               "the probabilities of this line", &renorm) < 0)
+    if (bc__check_distribution(b, b->line_prob, n, at, "the probabilities of this line",
+                               &renorm) < 0)
         return -1;
     if (renorm) {
+        for (int64_t k = 0; k < n; k++) {
+            int64_t id = bc_numtab_intern(b->values, b->line_prob[k]);
+            if (id < 0)
+                return bc__builder_report(b, BC_ERROR, at, "out of memory");
+            b->t_prob[first + k] = (uint32_t)id;
+        }
         if (bc__grow((void **)&b->renorm_lines, &b->cap_renorm, b->n_renorm + 1,
                      sizeof *b->renorm_lines) < 0)
             return bc__builder_report(b, BC_ERROR, at, "out of memory");
         b->renorm_lines[b->n_renorm++] = at.line;
     }
+    return 0;
+}
+
+int bc_builder_pair_end_summed(bc_builder *b, bc_pos at)
+{
+    assert(b->pair_open && b->n_trans > b->p_trans_start[b->n_pairs]);
+    assert(!b->line_missing_prob || b->line_succ == 1);
+    b->pair_open = 0;
+    b->n_pairs++;
+    b->p_trans_start[b->n_pairs] = b->n_trans;
+    (void)at;
     return 0;
 }
 
@@ -265,42 +354,12 @@ void bc_builder_pair_cancel(bc_builder *b)
     b->n_trans = b->p_trans_start[b->n_pairs];
 }
 
-/* 1 when probs[0..n) are small-form, non-negative and sum to exactly 1,
- * decided without reducing a fraction (no gcd): the sum is kept over one
- * denominator D, every term's denominator dividing it or it dividing the
- * term's (probabilities of one line usually share a denominator).  0 when
- * that does not decide it: the exact path then does. */
-static int sums_to_one_fast(const bc_num *probs, int64_t n)
-{
-    __int128 num = 0;
-    int64_t den = 1; /* divisions stay in 64 bits */
-    const __int128 cap = (__int128)1 << 100;
-    for (int64_t k = 0; k < n; k++) {
-        bc_num p = probs[k];
-        if (p.den <= 0 || p.num < 0)
-            return 0;
-        if (p.den == den) {
-            num += p.num;
-        } else if (den % p.den == 0) {
-            num += (__int128)p.num * (den / p.den);
-        } else if (p.den % den == 0) {
-            num = num * (p.den / den) + p.num;
-            den = p.den;
-        } else {
-            return 0;
-        }
-        if (num > cap)
-            return 0;
-    }
-    return num == den;
-}
-
 int bc__check_distribution(bc_builder *b, bc_num *probs, int64_t n, bc_pos at, const char *what,
                            int *renormalised)
 {
     bc_num sum = bc_num_int(0);
     *renormalised = 0;
-    if (sums_to_one_fast(probs, n))
+    if (bc_num_sum_is_one(probs, n))
         return 0;
     for (int64_t k = 0; k < n; k++) {
         if (bc_num_sign(probs[k], b->big) < 0)

@@ -7,6 +7,7 @@
 #include <getopt.h>
 #include <limits.h>
 #include <math.h>
+#include <signal.h>
 #include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
@@ -150,7 +151,10 @@ int bc_cli_common_option(bc_cli_common *c, int id, const char *arg)
         c->seed = v;
         return 1;
     case OPT_MAX_MEMORY:
-        return parse_bytes(arg, &c->max_memory) < 0 ? -1 : 1;
+        if (parse_bytes(arg, &c->max_memory) < 0)
+            return -1;
+        bc_memory_limit_set(c->max_memory); /* the solvers, which have no bc_diag, read it there */
+        return 1;
     default:
         return bc_cli_grid_option(c, id, arg);
     }
@@ -201,6 +205,51 @@ int bc_cli_write_file(const char *path, int (*write)(FILE *f, const void *ctx), 
 int bc_cli_text_wanted(const bc_cli_common *c)
 {
     return !c->quiet && !(c->json_path && strcmp(c->json_path, "-") == 0);
+}
+
+static void on_interrupt(int sig)
+{
+    (void)sig;
+    bc_stop_request(); /* async-signal-safe: it only sets a flag */
+}
+
+void bc_cli_catch_interrupt(void)
+{
+    struct sigaction sa, old;
+    if (sigaction(SIGINT, NULL, &old) == 0 && old.sa_handler == SIG_IGN)
+        return; /* a background job that the shell shields from Ctrl-C stays so */
+    memset(&sa, 0, sizeof sa);
+    sa.sa_handler = on_interrupt;
+    sigemptyset(&sa.sa_mask);
+    sa.sa_flags = SA_RESETHAND;
+    sigaction(SIGINT, &sa, NULL);
+}
+
+int bc_cli_interrupted(const char *cmd, const char *what, double bound)
+{
+    if (isnan(bound))
+        fprintf(stderr, "bellcheck %s: interrupted (Ctrl-C) during %s; no output file was "
+                "written\n", cmd, what);
+    else if (bound >= 0)
+        fprintf(stderr, "bellcheck %s: interrupted (Ctrl-C) during %s; the best bound proven so "
+                "far is max |V - V*| <= %.3g; no output file was written\n", cmd, what, bound);
+    else
+        fprintf(stderr, "bellcheck %s: interrupted (Ctrl-C) during %s, before any bound was "
+                "proven; no output file was written\n", cmd, what);
+    return BC_EXIT_INTERRUPTED;
+}
+
+int bc_cli_interrupted_solve(const char *cmd, const bc_solution *sol)
+{
+    char what[128];
+    const char *it = sol->iterations == 1 ? "" : "s";
+    if (sol->status == BC_SOLVE_OK) /* the solve had finished: what was cut short came after it */
+        snprintf(what, sizeof what, "the work after the solve (%s solved the model in %lld "
+                 "iteration%s)", bc_method_name(sol->method), (long long)sol->iterations, it);
+    else
+        snprintf(what, sizeof what, "%s after %lld iteration%s", bc_method_name(sol->method),
+                 (long long)sol->iterations, it);
+    return bc_cli_interrupted(cmd, what, sol->bound);
 }
 
 bc_model *bc_cli_load_model(const char *path, const bc_cli_common *c)

@@ -5,7 +5,8 @@
 
 #include "bellcheck.h"
 
-enum { BC_EXIT_OK = 0, BC_EXIT_GATE = 1, BC_EXIT_USAGE = 2, BC_EXIT_SOLVER = 3 };
+enum { BC_EXIT_OK = 0, BC_EXIT_GATE = 1, BC_EXIT_USAGE = 2, BC_EXIT_SOLVER = 3,
+       BC_EXIT_INTERRUPTED = 130 /* Ctrl-C: 128 + SIGINT, as shells report it */ };
 
 /* Options every command accepts. */
 typedef struct {
@@ -42,6 +43,16 @@ void bc_cli_report_unusable(const char *source, const bc_model *m, const bc_find
 int bc_cli_write_file(const char *path, int (*write)(FILE *f, const void *ctx), const void *ctx);
 /* Text report goes to stdout unless --quiet or --json - . */
 int bc_cli_text_wanted(const bc_cli_common *c);
+/* Ctrl-C (SIGINT) from now on asks the solvers to stop (bc_stop_request);
+ * the handler is reset by the first one, so a second Ctrl-C ends the process
+ * at once.  Nothing is installed when SIGINT was ignored at start. */
+void bc_cli_catch_interrupt(void);
+/* After a stop request: says on stderr what was interrupted (`what`, e.g. "vi
+ * after 12 iterations") with the best proven bound so far (bound < 0: none;
+ * NAN: `what` tells) and that no output file was written; returns BC_EXIT_INTERRUPTED. */
+int bc_cli_interrupted(const char *cmd, const char *what, double bound);
+/* The same for an interrupted solution: its method, iterations and bound. */
+int bc_cli_interrupted_solve(const char *cmd, const bc_solution *sol);
 
 /* The commands. */
 int bc_cli_check(int argc, char **argv);
@@ -85,7 +96,7 @@ int bc_cli_grid_from_agent(bc_cli_common *c, const char *path, const char *q_pat
     "  --quiet           no text report; only errors on standard error\n"                         \
     "  --threads N       threads to use (default: 1)\n"                                           \
     "  --seed N          seed for anything random (default: 1)\n"                                 \
-    "  --max-memory BYTES  refuse, before allocating, an input that needs more memory\n"           \
+    "  --max-memory BYTES  refuse, before allocating, work that needs more memory\n"              \
     "                    (suffixes K, M, G, T: powers of 1024; default: no limit)\n"             \
     "  --help            this text\n"                                                             \
     "a continuous TASK (.task file) in place of MODEL is turned into a model on a grid:\n"        \
@@ -96,6 +107,6 @@ int bc_cli_grid_from_agent(bc_cli_common *c, const char *path, const char *q_pat
     "  --noise-samples M strata per noise variable (default 8; 4 with two noise\n"               \
     "                    variables, 2 with more)\n"                                               \
     "exit status: 0 success, 1 a gate failed, 2 bad usage or bad input,\n"                       \
-    "             3 a solver failed or a resource ran out\n"
+    "             3 a solver failed or a resource ran out, 130 interrupted (Ctrl-C)\n"
 
 #endif

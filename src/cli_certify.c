@@ -43,6 +43,8 @@ static int write_certify_outputs(const char *cert_path, const char *json_path, c
     ok = ok && (!json_path || have_json);
     ok = ok && bc_write_certificate(co.f, m, cert) == 0;
     ok = ok && (!json_path || bc_report_certify_json(jo.f, m, cert, pr, shown) == 0);
+    int stop = ok && bc_stop_requested(); /* Ctrl-C came while writing: the caller says so */
+    ok = ok && !stop;
     if (ok)
         ok = bc_out_commit(&co, &d) == 0 && (!json_path || bc_out_commit(&jo, &d) == 0);
     else {
@@ -50,7 +52,7 @@ static int write_certify_outputs(const char *cert_path, const char *json_path, c
             bc_out_abort(&co);
         if (have_json)
             bc_out_abort(&jo);
-        if (d.n == 0)
+        if (d.n == 0 && !stop)
             bc_diag_add(&d, BC_ERROR, cert_path, 0, 0, "write error");
     }
     bc_diag_print(&d, stderr);
@@ -68,9 +70,14 @@ static int certify_model(const bc_model *m, const bc_cli_common *c, const char *
     bc_certificate cert;
     memset(&cert, 0, sizeof cert);
     int rc = BC_EXIT_SOLVER;
-    if (bc_solve(m, BC_METHOD_AUTO, so, &sol) != BC_SOLVE_OK)
+    bc_solve_status st = bc_solve(m, BC_METHOD_AUTO, so, &sol);
+    if (st == BC_SOLVE_OK && bc_prove_solution(m, &sol, po, &pr) < 0)
+        pr.value.kind = BC_PROOF_NONE; /* pr.message says why */
+    if (st == BC_SOLVE_INTERRUPTED || bc_stop_requested())
+        rc = bc_cli_interrupted_solve("certify", &sol);
+    else if (st != BC_SOLVE_OK)
         fprintf(stderr, "bellcheck certify: the solve failed: %s\n", sol.message);
-    else if (bc_prove_solution(m, &sol, po, &pr) < 0 || pr.value.kind == BC_PROOF_NONE)
+    else if (pr.value.kind == BC_PROOF_NONE)
         fprintf(stderr, "bellcheck certify: no proof could be had: %s\n", pr.message);
     else if (bc_certificate_from_proof(m, &sol, &pr, &cert) < 0)
         fprintf(stderr, "bellcheck certify: out of memory\n");
@@ -78,6 +85,8 @@ static int certify_model(const bc_model *m, const bc_cli_common *c, const char *
         rc = BC_EXIT_OK;
         if (bc_cli_text_wanted(c) && strcmp(out_path, "-"))
             bc_report_certify_text(stdout, m, &cert, &pr, out_path);
+    } else if (bc_stop_requested()) {
+        rc = bc_cli_interrupted_solve("certify", &sol);
     }
     bc_certificate_free(&cert);
     bc_proof_result_free(&pr);
@@ -131,9 +140,11 @@ int bc_cli_certify(int argc, char **argv)
         return bc_cli_usage_error("certify", "expected one MODEL argument (see --help)");
     if (!strcmp(out_path, "-") && c.json_path && !strcmp(c.json_path, "-"))
         return bc_cli_usage_error("certify", "only one output may go to standard output (-)");
+    bc_cli_catch_interrupt();
     bc_model *m = bc_cli_load_model(argv[optind], &c);
     if (!m)
-        return BC_EXIT_USAGE;
+        return bc_stop_requested() ? bc_cli_interrupted("certify", "the construction of the model", -1)
+                                   : BC_EXIT_USAGE;
     int rc = bc_cli_model_usable(m, argv[optind]);
     if (rc > 0 && m->horizon == 0 && m->discount >= 1.0 && po.mode == BC_PROVE_INTERVAL) {
         bc_cli_usage_error("certify", "at discount 1 certificates are exact: drop --proof interval");

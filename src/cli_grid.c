@@ -4,6 +4,7 @@
 #include "cli.h"
 
 #include <getopt.h>
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -186,9 +187,14 @@ int bc_cli_grid(int argc, char **argv)
                                   path);
     c.grid_given = 1;
     bc_task *t = NULL;
+    bc_cli_catch_interrupt(); /* a large grid takes a while to build */
     bc_model *m = bc_cli_load_task(path, &c, &t);
-    if (!m)
-        return BC_EXIT_USAGE;
+    if (!m || bc_stop_requested()) {
+        bc_model_free(m);
+        bc_task_free(t);
+        return bc_stop_requested() ? bc_cli_interrupted("grid", "the construction of the model", NAN)
+                                   : BC_EXIT_USAGE;
+    }
     bc_grid g;
     bc_diag d;
     bc_diag_init(&d);

@@ -4,6 +4,7 @@
 #include "cli.h"
 
 #include <getopt.h>
+#include <math.h>
 #include <string.h>
 
 static const char help[] =
@@ -27,7 +28,10 @@ static const char help[] =
     "  --svg DIR         write convergence.svg (values and changes against cell size)\n"
     "                    and trajectories.svg (8 simulated episodes over the finest\n"
     "                    grid) into DIR, all files or none\n"
-    "  --slice X[,Y]     the variables drawn across and up in trajectories.svg\n\n"
+    "  --html FILE       write one self-contained HTML page: the verdict, the tables\n"
+    "                    of grids with their proofs, and both pictures\n"
+    "  --slice X[,Y]     the variables drawn across and up in the trajectories\n"
+    "                    (default: the first two; needs --svg or --html)\n\n"
     "Exit status 2 when a grid's model is unusable or a simulation step fails, 3 when a\n"
     "solver fails; the report still shows every grid.\n"
     "A simulation measures the task as its formulas describe it, not the physical machine.\n\n"
@@ -36,7 +40,7 @@ static const char help[] =
 #define MAX_GRIDS 32
 
 enum { OPT_EPISODES = OPT_FIRST_COMMAND_OPTION, OPT_PROOF, OPT_MAX_SECONDS, OPT_SVG_DIR,
-       OPT_SLICE_VARS };
+       OPT_SLICE_VARS, OPT_HTML_PAGE };
 
 typedef struct {
     bc_cli_common c;
@@ -44,8 +48,9 @@ typedef struct {
     bc_grid_opts grids[MAX_GRIDS];
     int32_t n_grids;
     bc_refine_opts o;
-    const char *svg_dir; /* --svg DIR */
-    const char *slice;   /* --slice X[,Y] */
+    const char *svg_dir;   /* --svg DIR */
+    const char *html_path; /* --html FILE */
+    const char *slice;     /* --slice X[,Y] */
 } refine_args;
 
 /* "16x16,32x32,..." into a->grids; 0, or the exit status after printing. */
@@ -108,9 +113,17 @@ static int command_option(refine_args *a, int id, const char *arg, const char *w
     case OPT_PROOF:
         return bc_cli_prove_mode("refine", arg, &a->o.prove.mode) < 0 ? BC_EXIT_USAGE : 0;
     case OPT_SVG_DIR:
+        if (!strcmp(arg, "-") || !arg[0])
+            return bc_cli_usage_error("refine", "--svg writes files into a directory; give its name");
         a->svg_dir = arg;
-        if (a->o.n_trajectories == 0)
-            a->o.n_trajectories = 8; /* drawn over the finest grid's plane */
+        a->o.n_trajectories = 8; /* drawn over the finest grid's plane */
+        return 0;
+    case OPT_HTML_PAGE:
+        if (!strcmp(arg, "-") || !arg[0])
+            return bc_cli_usage_error("refine", "--html writes a file; give its name (standard "
+                                      "output carries the text report)");
+        a->html_path = arg;
+        a->o.n_trajectories = 8;
         return 0;
     case OPT_SLICE_VARS:
         a->slice = arg;
@@ -134,6 +147,7 @@ static int parse_args(int argc, char **argv, refine_args *a)
         {"max-seconds", required_argument, NULL, OPT_MAX_SECONDS},
         {"svg", required_argument, NULL, OPT_SVG_DIR},
         {"slice", required_argument, NULL, OPT_SLICE_VARS},
+        {"html", required_argument, NULL, OPT_HTML_PAGE},
         {NULL, 0, NULL, 0}};
     int id;
     opterr = 0;
@@ -159,6 +173,9 @@ static int parse_args(int argc, char **argv, refine_args *a)
                                   "--cells 16x16,32x32,64x64)");
     if (check_grids(a) != 0)
         return BC_EXIT_USAGE;
+    if (a->slice && !a->svg_dir && !a->html_path)
+        return bc_cli_usage_error("refine", "--slice chooses the plane of the trajectories: give "
+                                  "--svg or --html");
     for (int32_t k = 0; k < a->n_grids; k++) { /* the other grid options apply to every grid */
         a->grids[k].scheme = a->c.grid.scheme;
         a->grids[k].samples = a->c.grid.samples;
@@ -175,12 +192,32 @@ typedef struct {
     const bc_refine *r;
     const bc_refine_opts *o;
     const char *source;
+    const char *slice;
 } refine_report;
 
 static int write_json(FILE *f, const void *ctx)
 {
     const refine_report *x = ctx;
     return bc_report_refine_json(f, x->t, x->r, x->o, x->source);
+}
+
+static int write_html(FILE *f, const void *ctx)
+{
+    const refine_report *x = ctx;
+    return bc_report_html_refine(f, x->t, x->r, x->o, x->source, x->slice);
+}
+
+/* A --slice that names no variable of the task is refused before the study
+ * runs (its pictures come last).  0, or the exit status after printing. */
+static int check_slice(const refine_args *a, const bc_task *t)
+{
+    if (!a->slice)
+        return 0;
+    bc_layout l;
+    char why[400];
+    int rc = bc_layout_task(&l, t, &a->grids[0], NULL, a->slice, why, sizeof why);
+    bc_layout_free(&l);
+    return rc < 0 ? bc_cli_usage_error("refine", "--slice: %s", why) : 0;
 }
 
 /* The exit status of a study: 3 if a solver failed, else 2 if a grid was unusable or a simulation failed. */
@@ -196,6 +233,19 @@ static int study_status(const bc_refine *r)
     return rc;
 }
 
+/* After Ctrl-C: the grid that was cut short and what its solve had proven. */
+static int interrupted(const bc_refine *r)
+{
+    char what[400];
+    int32_t k = 0; /* the first grid without a solution */
+    while (k + 1 < r->n_levels && r->level[k].status == BC_REFINE_OK && r->level[k].values)
+        k++;
+    const char *state = k < r->n_levels && r->level[k].message[0] ? r->level[k].message
+                                                                  : "building its model";
+    snprintf(what, sizeof what, "grid %d of the study (%.300s)", (int)k + 1, state);
+    return bc_cli_interrupted("refine", what, NAN); /* the grid's message holds its bound */
+}
+
 int bc_cli_refine(int argc, char **argv)
 {
     refine_args a;
@@ -209,14 +259,21 @@ int bc_cli_refine(int argc, char **argv)
     bc_diag d;
     bc_diag_init(&d);
     d.max_memory = a.c.max_memory;
+    bc_cli_catch_interrupt();
     bc_task *t = bc_task_read_file(a.path, &d);
     const char *source = strcmp(a.path, "-") ? a.path : "<stdin>";
     bc_refine r;
     memset(&r, 0, sizeof r);
     if (!t)
         rc = BC_EXIT_USAGE;
+    else if ((rc = check_slice(&a, t)) != 0)
+        ;
     else if (bc_refine_run(t, a.grids, a.n_grids, &a.o, &r, &d) < 0)
         rc = BC_EXIT_USAGE;
+    if (t && bc_stop_requested()) { /* Ctrl-C: no report, no file */
+        bc_diag_free(&d);
+        rc = interrupted(&r);
+    }
     bc_diag_print(&d, stderr);
     bc_diag_free(&d);
     if (rc == BC_EXIT_OK) {
@@ -225,7 +282,7 @@ int bc_cli_refine(int argc, char **argv)
                 fprintf(stderr, "bellcheck refine: grid %d: %s\n", (int)k + 1, r.level[k].message);
         if (bc_cli_text_wanted(&a.c))
             bc_report_refine_text(stdout, t, &r, &a.o, source);
-        refine_report x = {t, &r, &a.o, source};
+        refine_report x = {t, &r, &a.o, source, a.slice};
         rc = study_status(&r);
         if (a.c.json_path && bc_cli_write_file(a.c.json_path, write_json, &x) < 0)
             rc = BC_EXIT_SOLVER;
@@ -236,6 +293,8 @@ int bc_cli_refine(int argc, char **argv)
             bc_diag_print(&d, stderr);
             bc_diag_free(&d);
         }
+        if (a.html_path && bc_cli_write_file(a.html_path, write_html, &x) < 0)
+            rc = BC_EXIT_SOLVER;
     }
     bc_refine_free(&r);
     bc_task_free(t);

@@ -208,6 +208,8 @@ static int write_json(const score_args *a, const bc_model *m, const bc_score *s,
         if (bc_report_score_json(o.f, m, s, gates, n_gates, (int32_t)a->top) < 0) {
             bc_diag_add(&d, BC_ERROR, a->c.json_path, 0, 0, "write error");
             bc_out_abort(&o);
+        } else if (bc_stop_requested()) {
+            bc_out_abort(&o); /* Ctrl-C came while writing: the caller says so */
         } else {
             rc = bc_out_commit(&o, &d);
         }
@@ -220,7 +222,13 @@ static int write_json(const score_args *a, const bc_model *m, const bc_score *s,
 static int run(const score_args *a, const bc_model *m, const bc_qtable *q, const bc_policy *p)
 {
     bc_score s;
-    if (bc_score_compute(m, q, p, &a->o, &s) < 0) {
+    int computed = bc_score_compute(m, q, p, &a->o, &s);
+    if (bc_stop_requested()) { /* Ctrl-C: no report, no file */
+        int rc = bc_cli_interrupted_solve("score", &s.optimum);
+        bc_score_free(&s);
+        return rc;
+    }
+    if (computed < 0) {
         fprintf(stderr, "bellcheck %s\n", s.message); /* the message starts with "score: " */
         bc_score_free(&s);
         return BC_EXIT_SOLVER;
@@ -237,8 +245,8 @@ static int run(const score_args *a, const bc_model *m, const bc_qtable *q, const
             rc = BC_EXIT_GATE;
         }
     if (write_json(a, m, &s, gates, n_gates) < 0)
-        rc = BC_EXIT_SOLVER;
-    if (rc != BC_EXIT_SOLVER &&
+        rc = bc_stop_requested() ? bc_cli_interrupted_solve("score", &s.optimum) : BC_EXIT_SOLVER;
+    if ((rc == BC_EXIT_OK || rc == BC_EXIT_GATE) &&
         bc_cli_pictures_score(&a->pic, m, &s, gates, n_gates, (int32_t)a->top) < 0)
         rc = BC_EXIT_SOLVER;
     bc_score_free(&s);
@@ -257,9 +265,11 @@ int bc_cli_score(int argc, char **argv)
         return rc < 0 ? BC_EXIT_OK : rc;
     if (bc_cli_grid_from_agent(&a.c, a.path, a.q_path) < 0)
         return BC_EXIT_USAGE;
+    bc_cli_catch_interrupt();
     bc_model *m = bc_cli_load_pictured(a.path, &a.c, &a.pic, "score");
     if (!m)
-        return BC_EXIT_USAGE;
+        return bc_stop_requested() ? bc_cli_interrupted("score", "the construction of the model", -1)
+                                   : BC_EXIT_USAGE;
     bc_findings fd;
     if (bc_analyse(m, &fd) < 0) {
         bc_model_free(m);

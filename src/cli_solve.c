@@ -178,6 +178,8 @@ static int write_outputs(const solve_args *a, const bc_model *m, const bc_soluti
             bc_diag_add(&d, BC_ERROR, outs[i].path, 0, 0, "write error");
             ok = 0;
         }
+    if (ok && bc_stop_requested())
+        ok = 0; /* Ctrl-C came while writing: nothing is committed (the caller says so) */
     for (int i = 0; i < k; i++) {
         if (ok)
             ok = bc_out_commit(&outs[i].out, &d) == 0;
@@ -197,6 +199,16 @@ static int run_compare(const solve_args *a, const bc_model *m)
         fprintf(stderr, "bellcheck solve: out of memory\n");
         return BC_EXIT_SOLVER;
     }
+    if (bc_stop_requested()) { /* the best bound any method proved before it stopped */
+        const bc_solution *best = NULL;
+        for (int i = 0; i < cmp.n; i++)
+            if (cmp.sol[i].bound >= 0 && (!best || cmp.sol[i].bound < best->bound))
+                best = &cmp.sol[i];
+        int rc = best ? bc_cli_interrupted_solve("solve", best)
+                      : bc_cli_interrupted("solve", "the comparison of methods", -1);
+        bc_comparison_free(&cmp);
+        return rc;
+    }
     if (bc_cli_text_wanted(&a->c))
         bc_report_compare_text(stdout, m, &cmp);
     int rc = cmp.agree ? BC_EXIT_OK : BC_EXIT_SOLVER;
@@ -206,7 +218,8 @@ static int run_compare(const solve_args *a, const bc_model *m)
         if (cmp.sol[i].status == BC_SOLVE_OK)
             best = &cmp.sol[i];
     if (rc == BC_EXIT_OK && write_outputs(a, m, best, NULL, &cmp) < 0)
-        rc = BC_EXIT_SOLVER;
+        rc = bc_stop_requested() ? bc_cli_interrupted("solve", "writing the outputs", -1)
+                                 : BC_EXIT_SOLVER;
     bc_comparison_free(&cmp);
     return rc;
 }
@@ -227,6 +240,12 @@ static int run_one(const solve_args *a, const bc_model *m)
     bc_proof_result pr;
     memset(&pr, 0, sizeof pr);
     int proved = st == BC_SOLVE_OK ? bc_prove_solution(m, &sol, &po, &pr) : 0;
+    if (st == BC_SOLVE_INTERRUPTED || bc_stop_requested()) { /* Ctrl-C: no report, no file */
+        int rc = bc_cli_interrupted_solve("solve", &sol);
+        bc_proof_result_free(&pr);
+        bc_solution_free(&sol);
+        return rc;
+    }
     if (proved < 0) {
         fprintf(stderr, "bellcheck solve: the %s proof failed: %s\n",
                 po.mode == BC_PROVE_EXACT ? "exact" : "interval", pr.message);
@@ -243,7 +262,7 @@ static int run_one(const solve_args *a, const bc_model *m)
         fprintf(stderr, "bellcheck solve: %s: %s\n", bc_method_name(sol.method), sol.message);
     /* A failed solve writes nothing: its numbers are not an answer. */
     if (st == BC_SOLVE_OK && write_outputs(a, m, &sol, &pr, NULL) < 0)
-        rc = BC_EXIT_SOLVER;
+        rc = bc_stop_requested() ? bc_cli_interrupted_solve("solve", &sol) : BC_EXIT_SOLVER;
     if (st == BC_SOLVE_OK && rc == BC_EXIT_OK &&
         bc_cli_pictures_solve(&a->pic, m, &sol, &pr, (int32_t)a->show) < 0)
         rc = BC_EXIT_SOLVER;
@@ -264,9 +283,11 @@ int bc_cli_solve(int argc, char **argv)
         return rc < 0 ? BC_EXIT_OK : rc;
     if (a.c.threads)
         a.o.threads = a.c.threads;
+    bc_cli_catch_interrupt();
     bc_model *m = bc_cli_load_pictured(a.path, &a.c, &a.pic, "solve");
     if (!m)
-        return BC_EXIT_USAGE;
+        return bc_stop_requested() ? bc_cli_interrupted("solve", "the construction of the model", -1)
+                                   : BC_EXIT_USAGE;
     int ok = bc_cli_model_usable(m, a.path);
     if (ok > 0 && m->horizon > 0 && a.method != BC_METHOD_AUTO && a.method != BC_METHOD_BACKWARD &&
         a.method != BC_METHOD_EXACT) {

@@ -44,15 +44,55 @@ static void size_text(char *buf, size_t cap, uint64_t bytes)
     snprintf(buf, cap, "%.1f %s", v, unit[u]);
 }
 
+/* The limit the solvers consult.  Set once by the command line before any
+ * work starts (--max-memory), read afterwards: no locking is needed. */
+static uint64_t memory_limit;
+
+void bc_memory_limit_set(uint64_t bytes)
+{
+    memory_limit = bytes;
+}
+
+uint64_t bc_memory_limit_get(void)
+{
+    return memory_limit;
+}
+
+uint64_t bc_model_bytes_min(int64_t n_states, int64_t n_pairs, int64_t n_trans)
+{
+    /* state: pair start, terminal flag, initial mass; pair: state, action,
+     * transition start, reward; transition: successor, probability. */
+    const long double b = (long double)n_states * 17 + (long double)n_pairs * 24 +
+                          (long double)n_trans * 12;
+    return b >= (long double)UINT64_MAX ? UINT64_MAX : (uint64_t)b;
+}
+
+/* "WHAT needs X, more than the memory limit of Y (--max-memory)" into buf. */
+static void refusal_text(char *buf, size_t cap, const char *what, uint64_t bytes, uint64_t limit)
+{
+    char need[32], lim[32];
+    size_text(need, sizeof need, bytes);
+    size_text(lim, sizeof lim, limit);
+    snprintf(buf, cap, "%s needs %s, more than the memory limit of %s (--max-memory)", what, need,
+             lim);
+}
+
+int bc_memory_refused(uint64_t limit, uint64_t bytes, const char *what, char *buf, size_t cap)
+{
+    if (limit == 0)
+        limit = memory_limit;
+    if (limit == 0 || bytes <= limit)
+        return 0;
+    refusal_text(buf, cap, what, bytes, limit);
+    return 1;
+}
+
 int bc_diag_memory_refused(bc_diag *d, const char *file, uint64_t bytes, const char *what)
 {
-    if (d->max_memory == 0 || bytes <= d->max_memory)
+    char msg[600];
+    if (!bc_memory_refused(d->max_memory, bytes, what, msg, sizeof msg))
         return 0;
-    char need[32], limit[32];
-    size_text(need, sizeof need, bytes);
-    size_text(limit, sizeof limit, d->max_memory);
-    bc_diag_add(d, BC_ERROR, file, 0, 0, "%s needs %s, more than the memory limit of %s "
-                "(--max-memory)", what, need, limit);
+    bc_diag_add(d, BC_ERROR, file, 0, 0, "%s", msg);
     return 1;
 }
 

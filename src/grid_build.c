@@ -371,14 +371,21 @@ static int declare(gb *s, int after_pairs)
     return bc_builder_list_end(s->b, at);
 }
 
+/* "64x64": the cells per variable. */
+static void cells_text(const bc_grid *g, char *buf, size_t cap)
+{
+    size_t n = 0;
+    buf[0] = 0;
+    for (int32_t j = 0; j < g->n_dims && n < cap; j++)
+        n += (size_t)snprintf(buf + n, cap - n, "%s%d", j ? "x" : "", (int)g->cells[j]);
+}
+
 /* Name, discount, objective of the model. */
 static int header(gb *s, const bc_grid_opts *o)
 {
     const bc_task *t = s->t;
-    char label[512], cells[200] = "", extra[120] = "";
-    size_t n = 0;
-    for (int32_t j = 0; j < s->g.n_dims; j++)
-        n += (size_t)snprintf(cells + n, sizeof cells - n, "%s%d", j ? "x" : "", (int)s->g.cells[j]);
+    char label[512], cells[200], extra[120] = "";
+    cells_text(&s->g, cells, sizeof cells);
     if (o->scheme == BC_SCHEME_SAMPLE)
         snprintf(extra, sizeof extra, ", %d points per cell", (int)s->n_points);
     if (t->n_noise)
@@ -416,6 +423,24 @@ static void gb_free(gb *s)
     free(s->w_int);
 }
 
+/* --max-memory, before anything is allocated: the model has a state per cell
+ * (and `stop`) and a pair per cell and action, each with one successor at
+ * least, so its solver arrays alone need bc_model_bytes_min of those counts;
+ * the evaluation buffers come on top.  1 after reporting a refusal. */
+static int memory_refused(gb *s)
+{
+    int64_t pairs = s->g.n_cells * s->t->n_actions;
+    uint64_t evals = (uint64_t)s->n_points;
+    for (int32_t k = 0; k < s->t->n_noise; k++)
+        evals *= (uint64_t)s->g.noise_strata; /* at most GRID_MAX_POINTS (grid.c) */
+    uint64_t bytes = bc_model_bytes_min(s->g.n_cells + 1, pairs, pairs) + evals * 24;
+    char what[400], cells[200];
+    cells_text(&s->g, cells, sizeof cells);
+    snprintf(what, sizeof what, "the grid model of %s cells (%lld cells x %d actions, counting one "
+             "successor each)", cells, (long long)s->g.n_cells, (int)s->t->n_actions);
+    return bc_diag_memory_refused(s->d, s->t->label, bytes, what);
+}
+
 bc_model *bc_grid_model(const bc_task *t, const bc_grid_opts *o, bc_diag *d)
 {
     gb s;
@@ -428,6 +453,8 @@ bc_model *bc_grid_model(const bc_task *t, const bc_grid_opts *o, bc_diag *d)
     s.n_points = 1;
     for (int32_t j = 0; o->scheme == BC_SCHEME_SAMPLE && j < s.g.n_dims; j++)
         s.n_points *= s.g.samples_per_axis;
+    if (memory_refused(&s))
+        return NULL;
     s.b = bc_builder_new(t->label, d);
     if (!s.b || noise_table(&s) < 0) {
         if (!s.b)
@@ -442,9 +469,15 @@ bc_model *bc_grid_model(const bc_task *t, const bc_grid_opts *o, bc_diag *d)
     int rc = !s.succ || !s.count || !s.reward ? oom(&s) : 0;
     if (rc == 0)
         rc = header(&s, o) < 0 || declare(&s, 0) < 0 ? -1 : 0;
-    for (int64_t c = 0; c < s.g.n_cells && rc == 0; c++)
+    for (int64_t c = 0; c < s.g.n_cells && rc == 0; c++) {
+        if (bc_stop_requested()) { /* a large grid takes a while: a stop request ends it */
+            bc_diag_add(d, BC_ERROR, t->label, 0, 0, "stopped on request while building the "
+                        "grid model (%lld of %lld cells done)", (long long)c, (long long)s.g.n_cells);
+            rc = -1;
+        }
         for (int32_t a = 0; a < t->n_actions && rc == 0; a++)
             rc = o->scheme == BC_SCHEME_INTERP ? interp_pair(&s, c, a) : counted_pair(&s, c, a);
+    }
     if (rc == 0)
         rc = declare(&s, 1) < 0 || bc__grid_initial(s.b, t, &s.g, d) < 0 ? -1 : 0;
     if (rc < 0) {

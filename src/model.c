@@ -33,24 +33,21 @@ bc_model *bc_model_alloc(int32_t n_states, int32_t n_actions, int64_t n_pairs, i
     m->succ_state = alloc_array(n_trans, sizeof(int32_t));
     m->prob = alloc_array(n_trans, sizeof(double));
     m->reward = alloc_array(n_pairs, sizeof(double));
-    m->prob_exact = alloc_array(n_trans, sizeof(bc_num));
-    m->reward_exact = alloc_array(n_pairs, sizeof(bc_num));
+    m->prob_id = alloc_array(n_trans, sizeof(uint32_t));   /* zeroed: BC_NUM_ID_ZERO */
+    m->reward_id = alloc_array(n_pairs, sizeof(uint32_t));
+    m->values = bc_numtab_new();
     m->terminal = alloc_array(n_states, sizeof(uint8_t));
     m->initial = alloc_array(n_states, sizeof(double));
     m->initial_exact = alloc_array(n_states, sizeof(bc_num));
     m->big = bc_bigtab_new();
     if (!m->state_pair_start || !m->pair_state || !m->pair_action || !m->pair_trans_start ||
-        !m->succ_state || !m->prob || !m->reward || !m->prob_exact || !m->reward_exact ||
-        !m->terminal || !m->initial || !m->initial_exact || !m->big) {
+        !m->succ_state || !m->prob || !m->reward || !m->prob_id || !m->reward_id ||
+        !m->values || !m->terminal || !m->initial || !m->initial_exact || !m->big) {
         bc_model_free(m);
         return NULL;
     }
     for (int32_t s = 0; s < n_states; s++)
         m->initial_exact[s].den = 1; /* zero, canonically */
-    for (int64_t p = 0; p < n_pairs; p++)
-        m->reward_exact[p].den = 1;
-    for (int64_t t = 0; t < n_trans; t++)
-        m->prob_exact[t].den = 1;
     return m;
 }
 
@@ -68,9 +65,10 @@ void bc_model_free(bc_model *m)
     free(m->succ_state);
     free(m->prob);
     free(m->reward);
-    free(m->prob_exact);
-    free(m->reward_exact);
-    free(m->outcome_exact);
+    free(m->prob_id);
+    free(m->reward_id);
+    free(m->outcome_id);
+    bc_numtab_free(m->values);
     free(m->pair_line);
     free(m->terminal);
     free(m->initial);
@@ -111,6 +109,13 @@ const char *bc_model_check_invariants(const bc_model *m)
         return why;
     if (m->pair_trans_start[0] != 0 || m->pair_trans_start[m->n_pairs] != m->n_trans)
         return "pair_trans_start does not span the transitions";
+    uint32_t n_values = bc_numtab_count(m->values);
+    for (int64_t p = 0; p < m->n_pairs; p++)
+        if (m->reward_id[p] >= n_values)
+            return "a reward id is not in the table of values";
+    for (int64_t t = 0; t < m->n_trans; t++)
+        if (m->prob_id[t] >= n_values || (m->outcome_id && m->outcome_id[t] >= n_values))
+            return "a probability or outcome id is not in the table of values";
     for (int64_t p = 0; p < m->n_pairs; p++) {
         int64_t a = m->pair_trans_start[p], b = m->pair_trans_start[p + 1];
         if (b <= a)
@@ -129,19 +134,65 @@ const char *bc_model_check_invariants(const bc_model *m)
     return NULL;
 }
 
+bc_num bc_model_prob_exact(const bc_model *m, int64_t t)
+{
+    return bc_numtab_get(m->values, m->prob_id[t]);
+}
+
+bc_num bc_model_reward_exact(const bc_model *m, int64_t p)
+{
+    return bc_numtab_get(m->values, m->reward_id[p]);
+}
+
+bc_num bc_model_outcome_exact(const bc_model *m, int64_t t)
+{
+    return m->outcome_id ? bc_numtab_get(m->values, m->outcome_id[t]) : bc_num_int(0);
+}
+
+/* The id of x in m's table into *id; 0 or -1 if out of memory. */
+static int set_id(bc_model *m, uint32_t *id, bc_num x)
+{
+    int64_t k = bc_numtab_intern(m->values, x);
+    if (k < 0)
+        return -1;
+    *id = (uint32_t)k;
+    return 0;
+}
+
+int bc_model_set_prob_exact(bc_model *m, int64_t t, bc_num x)
+{
+    return set_id(m, &m->prob_id[t], x);
+}
+
+int bc_model_set_reward_exact(bc_model *m, int64_t p, bc_num x)
+{
+    return set_id(m, &m->reward_id[p], x);
+}
+
+int bc_model_set_outcome_exact(bc_model *m, int64_t t, bc_num x)
+{
+    if (!m->outcome_id) {
+        m->outcome_id = alloc_array(m->n_trans, sizeof *m->outcome_id); /* zeroed: every outcome 0 */
+        if (!m->outcome_id)
+            return -1;
+    }
+    return set_id(m, &m->outcome_id[t], x);
+}
+
 void bc_model_reward_mpq(const bc_model *m, int64_t p, mpq_t out)
 {
-    bc_num_to_mpq(out, m->reward_exact[p], m->big);
-    if (!m->outcome_exact)
+    bc_num_to_mpq(out, bc_model_reward_exact(m, p), m->big);
+    if (!m->outcome_id)
         return;
     mpq_t o, pr;
     mpq_init(o);
     mpq_init(pr);
     for (int64_t t = m->pair_trans_start[p]; t < m->pair_trans_start[p + 1]; t++) {
-        if (bc_num_sign(m->outcome_exact[t], m->big) == 0)
+        bc_num x = bc_model_outcome_exact(m, t);
+        if (bc_num_sign(x, m->big) == 0)
             continue;
-        bc_num_to_mpq(o, m->outcome_exact[t], m->big);
-        bc_num_to_mpq(pr, m->prob_exact[t], m->big);
+        bc_num_to_mpq(o, x, m->big);
+        bc_num_to_mpq(pr, bc_model_prob_exact(m, t), m->big);
         mpq_mul(o, o, pr);
         mpq_add(out, out, o);
     }
@@ -178,7 +229,7 @@ double bc_model_initial_value(const bc_model *m, const double *v)
  * probability too small for a double is still an edge). */
 static int edge(const bc_model *m, int64_t t)
 {
-    return m->prob[t] > 0 || bc_num_sign(m->prob_exact[t], m->big) > 0;
+    return m->prob[t] > 0 || bc_num_sign(bc_model_prob_exact(m, t), m->big) > 0;
 }
 
 int bc_reverse_build(const bc_model *m, const uint8_t *use, bc_reverse *r)

@@ -54,7 +54,12 @@ struct bc_names {
     int64_t dense_cap;
 };
 
-/* 64-bit hash of s[0..len): 8 bytes at a time, then a final mix
+/* bc_names_seek's keys: a name's hash, or SEEK_DENSE | its number in the
+ * direct table, or SEEK_ABSENT. */
+#define SEEK_DENSE (1ULL << 63)
+#define SEEK_ABSENT UINT64_MAX
+
+/* 63-bit hash of s[0..len): 8 bytes at a time, then a final mix
  * (the multiply-xorshift steps of splitmix64, common practice). */
 static uint64_t name_hash(const char *s, size_t len)
 {
@@ -73,7 +78,7 @@ static uint64_t name_hash(const char *s, size_t len)
     }
     h ^= h >> 31;
     h *= 0xBF58476D1CE4E5B9ULL;
-    return h ^ (h >> 32);
+    return (h ^ (h >> 32)) & ~SEEK_DENSE; /* 63 bits: bc_names_seek's keys tell the two kinds apart */
 }
 
 /* Splits s into a non-digit head and a decimal number without leading zero
@@ -96,23 +101,41 @@ static int dense_split(const char *s, size_t len, int64_t *k)
 }
 
 /* The dense slot of s, or NULL when s is not prefix + number in range
- * (the same form dense_split accepts, read forwards). */
+ * (the same form dense_split accepts, read forwards).  Called for most
+ * lookups of a large model, so the digits are read without a branch per
+ * digit: a bad digit only sets a flag. */
 static int32_t *dense_at(const bc_names *t, const char *s, size_t len)
 {
-    size_t p = t->prefix_len;
-    if (!p || len <= p || len - p > DENSE_DIGITS_MAX || (s[p] == '0' && len - p > 1))
+    size_t p = t->prefix_len, nd = len - p; /* nd wraps when len < p: caught below */
+    if (p == 0 || nd - 1 >= DENSE_DIGITS_MAX || (s[p] == '0' && nd > 1) || s[0] != t->prefix[0])
         return NULL;
-    for (size_t i = 0; i < p; i++) /* prefixes are short: no library call */
+    for (size_t i = 1; i < p; i++) /* prefixes are short: no library call */
         if (s[i] != t->prefix[i])
             return NULL;
-    int64_t k = 0;
-    for (size_t i = p; i < len; i++) {
-        unsigned dgt = (unsigned)(s[i] - '0');
-        if (dgt > 9)
-            return NULL;
-        k = k * 10 + dgt;
+    /* The digits from the first, unrolled: a jump into the ladder instead
+     * of a loop; a byte that is not a digit gives a value above 9. */
+    const unsigned char *e = (const unsigned char *)s + len;
+    uint64_t k = 0;
+    unsigned bad = 0;
+#define DIGIT(j)                                      \
+    do {                                              \
+        unsigned g_ = (unsigned)e[-(j)] - '0';        \
+        bad |= g_ > 9;                                \
+        k = k * 10 + g_;                              \
+    } while (0)
+    switch (nd) {
+    case 9: DIGIT(9); /* fall through */
+    case 8: DIGIT(8); /* fall through */
+    case 7: DIGIT(7); /* fall through */
+    case 6: DIGIT(6); /* fall through */
+    case 5: DIGIT(5); /* fall through */
+    case 4: DIGIT(4); /* fall through */
+    case 3: DIGIT(3); /* fall through */
+    case 2: DIGIT(2); /* fall through */
+    default: DIGIT(1);
     }
-    return k < t->dense_cap ? &t->dense[k] : NULL;
+#undef DIGIT
+    return !bad && k < (uint64_t)t->dense_cap ? &t->dense[k] : NULL;
 }
 
 bc_names *bc_names_new(void)
@@ -177,20 +200,28 @@ int32_t bc_names_find(const bc_names *t, const char *s, size_t len)
     return hash_find(t, s, len, name_hash(s, len));
 }
 
-void bc_names_prefetch(const bc_names *t, const char *s, size_t len, int stage)
+uint64_t bc_names_seek(const bc_names *t, const char *s, size_t len)
 {
     const int32_t *d = dense_at(t, s, len);
     if (d) {
-        if (stage == 0)
-            __builtin_prefetch(d);
-        return;
+        __builtin_prefetch(d);
+        return SEEK_DENSE | (uint64_t)(d - t->dense);
     }
+    if (t->n_hashed == 0)
+        return SEEK_ABSENT; /* bc_names_find would not look further */
     uint64_t h = name_hash(s, len);
-    const slot_t *sl = &t->slot[h & (t->n_slots - 1)];
-    if (stage == 0)
-        __builtin_prefetch(sl);
-    else if (sl->index >= 0)
-        __builtin_prefetch(t->arena + sl->offset);
+    __builtin_prefetch(&t->slot[h & (t->n_slots - 1)]);
+    return h;
+}
+
+int32_t bc_names_found(const bc_names *t, const char *s, size_t len, uint64_t key)
+{
+    if (key == SEEK_ABSENT)
+        return -1;
+    if (!(key & SEEK_DENSE))
+        return hash_find(t, s, len, key);
+    int32_t i = t->dense[key & ~SEEK_DENSE];
+    return i >= 0 ? i : bc_names_find(t, s, len); /* not in the direct table: maybe hashed */
 }
 
 /* Puts name i (hash h) into the first free slot of its probe sequence. */

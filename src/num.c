@@ -303,6 +303,36 @@ int bc_num_is_one(bc_num x, const bc_bigtab *big)
     return x.den == 1 && x.num == 1;
 }
 
+/* The sum is kept as num/den over a common denominator that only grows (by
+ * lcm), without reducing any fraction: a line's probabilities usually share
+ * a denominator, and a gcd per term is what made the exact sum slow. */
+int bc_num_sum_is_one(const bc_num *x, int64_t n)
+{
+    i128 num = 0; /* invariant at each step: 0 <= num <= den <= 2^62, so no product overflows */
+    int64_t den = 1;
+    const int64_t den_cap = (int64_t)1 << 62;
+    for (int64_t k = 0; k < n; k++) {
+        bc_num p = x[k];
+        if (p.den <= 0 || p.num < 0)
+            return 0;
+        if (p.den == den) {
+            num += p.num;
+        } else if (den % p.den == 0) {
+            num += (i128)p.num * (den / p.den);
+        } else {
+            int64_t g = (int64_t)gcd_u64((uint64_t)den, (uint64_t)p.den);
+            int64_t grow = p.den / g; /* lcm = den * grow */
+            if (den > den_cap / grow)
+                return 0;
+            num = num * grow + (i128)p.num * (den * grow / p.den);
+            den *= grow;
+        }
+        if (num > den)
+            return 0; /* past 1 already, and the terms are not negative */
+    }
+    return num == den;
+}
+
 /* ---- parsing ------------------------------------------------------------ */
 
 /* Scans [+-]?digits at s[*i]; returns the digit count (0 = none) and leaves *i after them. */

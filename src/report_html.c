@@ -53,22 +53,33 @@ void bc__html_text(FILE *f, const char *s)
     bc__xml_text(f, s);
 }
 
-void bc__html_begin(FILE *f, const char *command, const bc_model *m)
+void bc__html_open(FILE *f, const char *command, const char *name)
 {
     fputs("<!DOCTYPE html>\n<html xmlns=\"http://www.w3.org/1999/xhtml\" lang=\"en\">\n<head>\n"
           "<meta charset=\"utf-8\"/>\n<meta name=\"viewport\" content=\"width=device-width\"/>\n"
           "<title>bellcheck ", f);
     bc__xml_text(f, command);
     fputs(": ", f);
-    bc__xml_text(f, m->name);
+    bc__xml_text(f, name);
     fprintf(f, "</title>\n<style>\n%s</style>\n</head>\n<body>\n<header>\n<h1>bellcheck %s: ",
             style, command);
-    bc__xml_text(f, m->name);
+    bc__xml_text(f, name);
+    fputs("</h1>\n", f);
+}
+
+void bc__html_safety(FILE *f)
+{
+    fprintf(f, "</header>\n<p class=\"safety\">%s</p>\n", safety);
+}
+
+void bc__html_begin(FILE *f, const char *command, const bc_model *m)
+{
+    bc__html_open(f, command, m->name);
     int32_t terminal = 0;
     for (int32_t s = 0; s < m->n_states; s++)
         terminal += m->terminal[s];
     char *g = bc_num_text(m->discount_exact, m->big);
-    fprintf(f, "</h1>\n<p class=\"sub\">%d states (%d terminal), %d actions, %lld state-action "
+    fprintf(f, "<p class=\"sub\">%d states (%d terminal), %d actions, %lld state-action "
                "pairs, %lld transitions; discount ", (int)m->n_states, (int)terminal,
             (int)m->n_actions, (long long)m->n_pairs, (long long)m->n_trans);
     bc__xml_text(f, g ? g : "?");
@@ -76,7 +87,8 @@ void bc__html_begin(FILE *f, const char *command, const bc_model *m)
     fprintf(f, ", objective %s", m->objective == BC_MAX ? "max (rewards)" : "min (costs)");
     if (m->horizon > 0)
         fprintf(f, ", horizon %d decisions", (int)m->horizon);
-    fprintf(f, ".</p>\n</header>\n<p class=\"safety\">%s</p>\n", safety);
+    fputs(".</p>\n", f);
+    bc__html_safety(f);
 }
 
 void bc__html_end(FILE *f)
@@ -104,7 +116,7 @@ static void value_words(FILE *f, double v, bc_proof p)
     free(text);
 }
 
-static void badge(FILE *f, bc_proof_kind k)
+void bc__html_badge(FILE *f, bc_proof_kind k)
 {
     const char *kind = bc_proof_kind_name(k);
     fprintf(f, "<span class=\"proof %s\">%s</span>", kind, kind);
@@ -122,7 +134,7 @@ void bc__html_figure(FILE *f, const char *label, double v, bc_proof p)
     fputs("</th><td class=\"num\">", f);
     value_words(f, v, p);
     fputs("</td><td>", f);
-    badge(f, p.kind);
+    bc__html_badge(f, p.kind);
     fputs("</td></tr>\n", f);
 }
 
@@ -147,7 +159,7 @@ void bc__html_picture(FILE *f, int (*draw)(FILE *f, const void *ctx), const void
 
 void bc__html_no_pictures(FILE *f)
 {
-    fputs("<p>No pictures: the states of this model are not the cells of a grid. Maps are "
+    fputs("<p>No maps: the states of this model are not the cells of a grid. Maps are "
           "drawn for continuous tasks (<code>.task</code> files with <code>--cells</code>) "
           "and for models whose state names are grid cells such as <code>x3y0</code>.</p>\n", f);
 }
@@ -166,6 +178,12 @@ static int draw_policy(FILE *f, const void *ctx)
 {
     const solve_pictures *p = ctx;
     return bc_svg_policy_map(f, p->m, p->l, p->sol->policy, "Optimal policy");
+}
+
+static int draw_residual(FILE *f, const void *ctx)
+{
+    const solve_pictures *p = ctx;
+    return bc_svg_residual(f, p->sol->trace, p->sol->n_trace, p->sol->trace_stride, NULL);
 }
 
 static int draw_value(FILE *f, const void *ctx)
@@ -245,8 +263,8 @@ int bc_report_html_solve(FILE *f, const bc_model *m, const bc_layout *l, const b
         proof_rows(f, m, pr);
     fputs("</table>\n", f);
     fputs("<h2>Pictures</h2>\n", f);
+    solve_pictures p = {m, l, sol};
     if (l && l->state) {
-        solve_pictures p = {m, l, sol};
         bc__html_picture(f, draw_policy, &p, "The optimal policy: each cell in the colour of "
                          "the action taken there; the legend names the actions.");
         bc__html_picture(f, draw_value, &p, "The optimal value V* of each cell (viridis scale: "
@@ -254,6 +272,12 @@ int bc_report_html_solve(FILE *f, const bc_model *m, const bc_layout *l, const b
     } else {
         bc__html_no_pictures(f);
     }
+    if (sol->n_trace > 0)
+        bc__html_picture(f, draw_residual, &p, "How the solve converged: per iteration, the "
+                         "residual (value iteration: the largest change one sweep makes; policy "
+                         "iteration: the largest improvement a single action still offers) and "
+                         "the bound on the distance to V* proven at that point, on a logarithmic "
+                         "scale.");
     policy_table(f, m, sol, show);
     bc__html_end(f);
     return ferror(f) ? -1 : 0;

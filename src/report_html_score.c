@@ -31,6 +31,9 @@ static void verdict(FILE *f, const bc_model *m, const bc_score *s, const bc_gate
     if (s->optimal_initial != 0 && isfinite(s->regret_initial))
         fprintf(f, " (%.3g%% of |V*|)", 100 * s->regret_initial / fabs(s->optimal_initial));
     fprintf(f, ".<br/>%d of %d covered states act suboptimally", (int)s->n_wrong, (int)covered);
+    if (s->n_undecided > 0)
+        fprintf(f, "; in %d the proof cannot tell whether the action is optimal (a tie, or a gap "
+                   "within its error)", (int)s->n_undecided);
     if (m->discount == 1 || s->discount == 1)
         fprintf(f, "; %d trap%s (states from which the agent may never finish)", (int)s->n_traps,
                 s->n_traps == 1 ? "" : "s");
@@ -170,10 +173,11 @@ int bc_report_html_score(FILE *f, const bc_model *m, const bc_layout *l, const b
     if (l && l->state) {
         score_pictures p = {m, l, s};
         bc__html_picture(f, draw_agent, &p, "Each cell in the colour of the agent's action. "
-                         "An inset square marks a cell where the agent acts otherwise than the "
-                         "optimal policy and loses value there; its shade is the regret (darker "
-                         "is worse). Cells from which the agent may never finish (traps) are "
-                         "outlined in black.");
+                         "An inset square marks a cell where the agent's action is proven "
+                         "suboptimal by the optimal Q-values; its shade is the state's regret "
+                         "(darker is worse). A small dashed square marks a cell where the proof "
+                         "cannot decide (a tie, or a gap within its error). Cells from which the "
+                         "agent may never finish (traps) are outlined in black.");
         bc__html_picture(f, draw_policy, &p, "The optimal policy, in the same colours, to compare.");
         bc__html_picture(f, draw_value, &p, "The optimal value V* of each cell (viridis scale: "
                          "darker is lower, brighter is higher).");

@@ -32,4 +32,13 @@ void bc__simulation_json(bc_jw *w, const bc_rollout_result *r);
 /* "98.5% of episodes stop within L steps (k of n)". */
 void bc__success_text(FILE *f, int64_t successes, int64_t episodes, int64_t limit);
 
+/* Refinement studies (report_refine.c; shared with report_html_refine.c). */
+const char *bc__refine_status_name(bc_refine_status s); /* "ok", "unusable", ... */
+/* How much better L's policy did than the previous grid's on the same
+ * episodes, in the objective's direction (its mean and 95% interval). */
+bc_sample_stats bc__refine_gain(const bc_refine_level *L);
+/* The study's closing sentence on the two finest grids' simulated policies
+ * ("the finest grid gives a better controller ..."), or NULL when there is none. */
+const char *bc__refine_verdict(const bc_refine *r);
+
 #endif

@@ -5,7 +5,7 @@
 #include <math.h>
 #include <string.h>
 
-static const char *status_name(bc_refine_status s)
+const char *bc__refine_status_name(bc_refine_status s)
 {
     switch (s) {
     case BC_REFINE_OK: return "ok";
@@ -15,10 +15,9 @@ static const char *status_name(bc_refine_status s)
     }
 }
 
-/* How much better L's policy did than the previous grid's on the same
- * episodes, in the objective's direction: the rollout measured the regret
- * (previous minus L's), the gain is its negative. */
-static bc_sample_stats gain_of(const bc_refine_level *L)
+/* The gain is the negative of the regret the rollout measured (previous
+ * minus L's). */
+bc_sample_stats bc__refine_gain(const bc_refine_level *L)
 {
     bc_sample_stats g = L->sim.regret;
     g.mean = -g.mean;
@@ -63,34 +62,30 @@ static void level_text(FILE *f, const bc_refine *r, int32_t k)
     bc__success_text(f, L->sim.successes, L->sim.episodes, L->sim.limit);
     fputc('\n', f);
     if (L->has_gain) {
-        bc_sample_stats gain = gain_of(L);
+        bc_sample_stats gain = bc__refine_gain(L);
         fprintf(f, "    better than the %s policy on the same episodes by ", prev);
         bc__stats_text(f, &gain);
         fputc('\n', f);
     }
 }
 
-/* The last sentence: does the finer grid control the task better? */
-static void verdict_text(FILE *f, const bc_refine *r)
+const char *bc__refine_verdict(const bc_refine *r)
 {
     const bc_refine_level *L = &r->level[r->n_levels - 1];
     if (!L->has_gain || L->status != BC_REFINE_OK)
-        return;
-    bc_sample_stats gain = gain_of(L);
+        return NULL;
+    bc_sample_stats gain = bc__refine_gain(L);
     const bc_sample_stats *g = &gain;
-    const char *what;
     if (g->n >= 2 && g->ci_low > 0)
-        what = "the finest grid gives a better controller than the one before it (95% interval "
+        return "the finest grid gives a better controller than the one before it (95% interval "
                "of the paired difference above 0)";
-    else if (g->n >= 2 && g->ci_high < 0)
-        what = "the finest grid gives a worse controller than the one before it (95% interval "
+    if (g->n >= 2 && g->ci_high < 0)
+        return "the finest grid gives a worse controller than the one before it (95% interval "
                "of the paired difference below 0)";
-    else if (g->n >= 2 && g->ci_low == 0 && g->ci_high == 0)
-        what = "the two finest grids' policies do equally well on every episode";
-    else
-        what = "the simulation cannot tell the two finest grids' policies apart (the 95% "
-               "interval of their paired difference contains 0); more episodes may";
-    fprintf(f, "In simulation, %s.\n", what);
+    if (g->n >= 2 && g->ci_low == 0 && g->ci_high == 0)
+        return "the two finest grids' policies do equally well on every episode";
+    return "the simulation cannot tell the two finest grids' policies apart (the 95% "
+           "interval of their paired difference contains 0); more episodes may";
 }
 
 int bc_report_refine_text(FILE *f, const bc_task *t, const bc_refine *r, const bc_refine_opts *o,
@@ -115,7 +110,9 @@ int bc_report_refine_text(FILE *f, const bc_task *t, const bc_refine *r, const b
     } else {
         fprintf(f, "No extrapolated optimum: %s.\n", r->note);
     }
-    verdict_text(f, r);
+    const char *verdict = bc__refine_verdict(r);
+    if (verdict)
+        fprintf(f, "In simulation, %s.\n", verdict);
     fprintf(f, "%s\n", bc__simulation_note);
     return ferror(f) ? -1 : 0;
 }
@@ -127,7 +124,7 @@ static void level_json(bc_jw *w, const bc_refine_level *L)
     for (int32_t j = 0; j < L->grid.n_dims; j++)
         bc_jw_int(w, NULL, L->grid.cells[j]);
     bc_jw_end(w, ']');
-    bc_jw_string(w, "status", status_name(L->status));
+    bc_jw_string(w, "status", bc__refine_status_name(L->status));
     bc_jw_string(w, "message", L->message);
     bc_jw_int(w, "states", L->n_states);
     bc_jw_int(w, "transitions", L->n_trans);
@@ -150,7 +147,7 @@ static void level_json(bc_jw *w, const bc_refine_level *L)
         bc_jw_null(w, "simulation");
     }
     if (L->status == BC_REFINE_OK && L->has_gain) {
-        bc_sample_stats gain = gain_of(L);
+        bc_sample_stats gain = bc__refine_gain(L);
         bc_jw_object(w, "gain_over_previous");
         bc__stats_json(w, "mean", &gain);
         bc_jw_end(w, '}');

@@ -74,6 +74,9 @@ static void figures_text(FILE *f, const bc_model *m, const bc_score *s)
         fputs(" (no visit weighting: the agent can get stuck)\n", f);
     else
         fprintf(f, ", %.4g%% weighted by visits\n", 100 * s->agreement_weighted);
+    if (s->n_undecided > 0)
+        fprintf(f, "  undecided (gap within error) %d state%s, counted as acting optimally\n",
+                (int)s->n_undecided, s->n_undecided == 1 ? "" : "s");
     if (s->n_traps > 0) {
         fprintf(f, "  traps (may never finish)   ");
         for (int32_t k = 0; k < s->n_traps && k < 10; k++)
@@ -228,6 +231,7 @@ int bc_report_score_json(FILE *f, const bc_model *m, const bc_score *s, const bc
     bc_jw_number(&w, "regret_bound", s->regret_bound);
     bc_jw_int(&w, "tied_states", s->n_tied);
     bc_jw_int(&w, "wrong_states", s->n_wrong);
+    bc_jw_int(&w, "undecided_states", s->n_undecided);
     bc_jw_object(&w, "agreement");
     bc_jw_number(&w, "states", s->agreement_states);
     bc_jw_number(&w, "weighted", s->agreement_weighted);

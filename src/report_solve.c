@@ -174,6 +174,28 @@ static void json_proof(bc_jw *w, const bc_model *m, const bc_proof_result *pr)
     bc_jw_end(w, '}');
 }
 
+/* "trace": the convergence history, one object per kept iteration (null for
+ * methods that keep none), and "trace_stride", how it was thinned. */
+static void json_trace(bc_jw *w, const bc_solution *sol)
+{
+    if (!sol->trace || sol->n_trace == 0) {
+        bc_jw_null(w, "trace");
+        return;
+    }
+    bc_jw_array(w, "trace");
+    for (int64_t i = 0; i < sol->n_trace; i++) {
+        const bc_trace_point *t = &sol->trace[i];
+        bc_jw_object(w, NULL);
+        bc_jw_string(w, "method", bc_method_name(t->method));
+        bc_jw_int(w, "iteration", t->iteration);
+        bc_jw_number(w, "residual", t->residual);
+        json_bound(w, t->bound);
+        bc_jw_end(w, '}');
+    }
+    bc_jw_end(w, ']');
+    bc_jw_int(w, "trace_stride", sol->trace_stride > 0 ? sol->trace_stride : 1);
+}
+
 int bc_report_solve_json(FILE *f, const bc_model *m, const bc_solution *sol,
                          const bc_proof_result *pr)
 {
@@ -190,6 +212,7 @@ int bc_report_solve_json(FILE *f, const bc_model *m, const bc_solution *sol,
         json_values(&w, m, sol->values);
         json_policy(&w, "policy", m, sol->policy);
     }
+    json_trace(&w, sol);
     if (sol->stage_policy) {
         bc_jw_array(&w, "stage_policy");
         for (int32_t t = 0; t < m->horizon; t++)

@@ -1,7 +1,8 @@
-/* report_svg.c — the picture directory of `solve` and `score`: every SVG file written, or none. */
+/* report_svg.c — the picture directories of `solve`, `score` and `refine`: every SVG file written, or none. */
 /* SPDX-License-Identifier: GPL-3.0-or-later */
 #define _XOPEN_SOURCE 700 /* mkdtemp */
-#include "bellcheck.h"
+#include "report_internal.h"
+#include "svg_internal.h"
 
 #include <errno.h>
 #include <stdio.h>
@@ -137,6 +138,7 @@ typedef struct {
     const int64_t *policy;
     const double *values;
     const bc_score *score;
+    const bc_solution *sol; /* solve: its history for residual.svg */
     char title[3][320];
 } pictures;
 
@@ -159,6 +161,12 @@ static int agent_svg(FILE *f, const void *ctx)
     return bc_svg_agent_map(f, p->m, p->l, p->score, p->title[2]);
 }
 
+static int residual_svg(FILE *f, const void *ctx)
+{
+    const pictures *p = ctx;
+    return bc_svg_residual(f, p->sol->trace, p->sol->n_trace, p->sol->trace_stride, p->m->name);
+}
+
 static void titles(pictures *p, const bc_model *m)
 {
     const char *stage = m->horizon > 0 ? " (first stage)" : "";
@@ -171,16 +179,18 @@ static void titles(pictures *p, const bc_model *m)
 int bc_report_svg_solve(const char *dir, const bc_model *m, const bc_layout *l,
                         const bc_solution *sol, bc_diag *d)
 {
-    pictures p = {m, l, sol->policy, sol->values, NULL, {{0}}};
+    pictures p = {m, l, sol->policy, sol->values, NULL, sol, {{0}}};
     titles(&p, m);
-    bc_svg_file files[] = {{"policy.svg", policy_svg, &p}, {"value.svg", value_svg, &p}};
-    return bc_svg_write_dir(dir, files, 2, d);
+    bc_svg_file files[] = {{"policy.svg", policy_svg, &p},
+                           {"value.svg", value_svg, &p},
+                           {"residual.svg", residual_svg, &p}};
+    return bc_svg_write_dir(dir, files, sol->n_trace > 0 ? 3 : 2, d);
 }
 
 int bc_report_svg_score(const char *dir, const bc_model *m, const bc_layout *l, const bc_score *s,
                         bc_diag *d)
 {
-    pictures p = {m, l, s->optimum.policy, s->optimum.values, s, {{0}}};
+    pictures p = {m, l, s->optimum.policy, s->optimum.values, s, NULL, {{0}}};
     titles(&p, m);
     bc_svg_file files[] = {{"agent.svg", agent_svg, &p},
                            {"policy.svg", policy_svg, &p},
@@ -192,69 +202,78 @@ int bc_report_svg_score(const char *dir, const bc_model *m, const bc_layout *l, 
 /* The pictures of refine                                                   */
 /* ------------------------------------------------------------------------ */
 
-#define REFINE_MAX 64
-
-typedef struct {
-    bc_convergence cv;
-    double h[REFINE_MAX], value[REFINE_MAX], bound[REFINE_MAX];
-    bc_layout layout;
-    bc_path *paths;
-    int32_t n_paths;
-    char title[320];
-} refine_pictures;
-
-static int convergence_svg(FILE *f, const void *ctx)
+/* The pieces of a refinement study's pictures (svg_internal.h): the solved
+ * grids' values for the convergence plot, and the finest solved grid's
+ * trajectories on the plane of the slice. */
+int bc__refine_pictures_init(bc__refine_pictures *p, const bc_task *t, const bc_refine *r,
+                             const char *slice, char *why, size_t cap)
 {
-    return bc_svg_convergence(f, &((const refine_pictures *)ctx)->cv);
+    memset(p, 0, sizeof *p);
+    int32_t finest = -1;
+    for (int32_t k = 0; k < r->n_levels && p->cv.n < BC__REFINE_MAX; k++) {
+        const bc_refine_level *lv = &r->level[k];
+        if (lv->status != BC_REFINE_OK)
+            continue; /* a failed grid has no value to draw */
+        p->h[p->cv.n] = lv->h;
+        p->value[p->cv.n] = lv->value;
+        p->bound[p->cv.n++] = lv->value_proof.kind != BC_PROOF_NONE ? lv->value_proof.bound : -1;
+        finest = k;
+    }
+    p->cv = (bc_convergence){p->cv.n, p->h, p->value, p->bound, "V* at the initial distribution",
+                             "relative cell size h = cells^(-1/variables)"};
+    const bc_refine_level *lv = finest >= 0 ? &r->level[finest] : NULL;
+    if (!lv || lv->n_trajectories == 0)
+        return 0;
+    if (bc_layout_task(&p->layout, t, &lv->grid, NULL, slice, why, cap) < 0)
+        return -1;
+    p->paths = malloc((size_t)lv->n_trajectories * sizeof *p->paths);
+    if (!p->paths) {
+        bc_layout_free(&p->layout);
+        snprintf(why, cap, "out of memory");
+        return -1;
+    }
+    for (int32_t k = 0; k < lv->n_trajectories; k++)
+        p->paths[k] = (bc_path){lv->trajectories[k].x, lv->trajectories[k].n_points};
+    p->n_paths = lv->n_trajectories;
+    char cells[200];
+    bc__cells_text(lv->grid.n_dims, lv->grid.cells, cells, sizeof cells);
+    snprintf(p->title, sizeof p->title, "Simulated episodes under the optimal policy of the "
+             "finest grid, %s (%d trajectories)", cells, (int)p->n_paths);
+    return 0;
 }
 
-static int trajectories_svg(FILE *f, const void *ctx)
+void bc__refine_pictures_free(bc__refine_pictures *p)
 {
-    const refine_pictures *p = ctx;
+    free(p->paths);
+    p->paths = NULL;
+    bc_layout_free(&p->layout);
+}
+
+int bc__refine_convergence_svg(FILE *f, const void *ctx)
+{
+    return bc_svg_convergence(f, &((const bc__refine_pictures *)ctx)->cv);
+}
+
+int bc__refine_trajectories_svg(FILE *f, const void *ctx)
+{
+    const bc__refine_pictures *p = ctx;
     return bc_svg_trajectories(f, NULL, &p->layout, NULL, p->paths, p->n_paths, p->title);
 }
 
 int bc_report_svg_refine(const char *dir, const bc_task *t, const bc_refine *r, const char *slice,
                          bc_diag *d)
 {
-    refine_pictures p;
-    memset(&p, 0, sizeof p);
-    int32_t finest = -1;
-    for (int32_t k = 0; k < r->n_levels && p.cv.n < REFINE_MAX; k++) {
-        const bc_refine_level *lv = &r->level[k];
-        if (lv->status != BC_REFINE_OK)
-            continue; /* a failed grid has no value to draw */
-        p.h[p.cv.n] = lv->h;
-        p.value[p.cv.n] = lv->value;
-        p.bound[p.cv.n++] = lv->value_proof.kind != BC_PROOF_NONE ? lv->value_proof.bound : -1;
-        finest = k;
+    bc__refine_pictures p;
+    char why[400];
+    if (bc__refine_pictures_init(&p, t, r, slice, why, sizeof why) < 0) {
+        bc_diag_add(d, BC_ERROR, dir, 0, 0, "%s", why);
+        return -1;
     }
-    p.cv = (bc_convergence){p.cv.n, p.h, p.value, p.bound, "V* at the initial distribution",
-                            "relative cell size h = cells^(-1/variables)"};
-    bc_svg_file files[2] = {{"convergence.svg", convergence_svg, &p}};
+    bc_svg_file files[2] = {{"convergence.svg", bc__refine_convergence_svg, &p}};
     int32_t n = 1;
-    const bc_refine_level *lv = finest >= 0 ? &r->level[finest] : NULL;
-    if (lv && lv->n_trajectories > 0) {
-        char why[400];
-        if (bc_layout_task(&p.layout, t, &lv->grid, NULL, slice, why, sizeof why) < 0) {
-            bc_diag_add(d, BC_ERROR, dir, 0, 0, "%s", why);
-            return -1;
-        }
-        p.paths = malloc((size_t)lv->n_trajectories * sizeof *p.paths);
-        if (!p.paths) {
-            bc_layout_free(&p.layout);
-            bc_diag_add(d, BC_ERROR, dir, 0, 0, "out of memory");
-            return -1;
-        }
-        for (int32_t k = 0; k < lv->n_trajectories; k++)
-            p.paths[k] = (bc_path){lv->trajectories[k].x, lv->trajectories[k].n_points};
-        p.n_paths = lv->n_trajectories;
-        snprintf(p.title, sizeof p.title, "Simulated episodes under the optimal policy of the "
-                 "finest grid (%d trajectories)", (int)p.n_paths);
-        files[n++] = (bc_svg_file){"trajectories.svg", trajectories_svg, &p};
-    }
+    if (p.n_paths > 0)
+        files[n++] = (bc_svg_file){"trajectories.svg", bc__refine_trajectories_svg, &p};
     int rc = bc_svg_write_dir(dir, files, n, d);
-    free(p.paths);
-    bc_layout_free(&p.layout);
+    bc__refine_pictures_free(&p);
     return rc;
 }

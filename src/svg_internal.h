@@ -1,4 +1,4 @@
-/* svg_internal.h — pieces the picture files share: colours, escaping, ticks, the SVG frame and axes (not public). */
+/* svg_internal.h — pieces the picture files share: colours, escaping, ticks, the SVG frame and axes, a refinement study's pictures (not public). */
 /* SPDX-License-Identifier: GPL-3.0-or-later */
 #ifndef BC_SVG_INTERNAL_H
 #define BC_SVG_INTERNAL_H
@@ -57,5 +57,25 @@ void bc__frame_axes(FILE *f, const bc__frame *fr, const char *x_label, const cha
 /* A vertical colour bar at (x, y) of height h for values lo..hi of map, with ticks and a label. */
 void bc__colour_bar(FILE *f, double x, double y, double h, bc__seqmap map, double lo, double hi,
                     const char *label);
+
+/* The pictures of a refinement study (report_svg.c), for its SVG directory
+ * and its HTML page. */
+#define BC__REFINE_MAX 64 /* grids drawn at most */
+typedef struct {
+    bc_convergence cv;     /* the solved grids' values against their cell size */
+    double h[BC__REFINE_MAX], value[BC__REFINE_MAX], bound[BC__REFINE_MAX];
+    bc_layout layout;      /* the finest solved grid's plane (when it kept trajectories) */
+    bc_path *paths;        /* [n_paths] its trajectories; NULL when none */
+    int32_t n_paths;
+    char title[320];
+} bc__refine_pictures;
+
+/* Fills p from the study; 0, or -1 with why[] set (a bad slice, out of memory). */
+int bc__refine_pictures_init(bc__refine_pictures *p, const bc_task *t, const bc_refine *r,
+                             const char *slice, char *why, size_t cap);
+void bc__refine_pictures_free(bc__refine_pictures *p);
+/* Writers for bc_svg_file and bc__html_picture (ctx: a bc__refine_pictures). */
+int bc__refine_convergence_svg(FILE *f, const void *ctx);
+int bc__refine_trajectories_svg(FILE *f, const void *ctx);
 
 #endif

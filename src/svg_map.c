@@ -36,7 +36,8 @@ typedef struct {
     double width, height;
 } map_geom;
 
-/* A legend entry: a swatch and its text (outline: drawn as a black frame). */
+/* A legend entry: a swatch and its text (outline 1: drawn as a thick black
+ * frame; 2: a small square with a dashed frame, as undecided cells are marked). */
 typedef struct {
     char colour[8];
     int outline;
@@ -139,9 +140,14 @@ static void legend(FILE *f, double x, double y, const entry *e, int n, const cha
 {
     for (int k = 0; k < n; k++) {
         double ey = y + k * ENTRY_H;
-        fprintf(f, "<rect x=\"%.1f\" y=\"%.1f\" width=\"13\" height=\"13\" fill=\"%s\" "
-                   "stroke=\"%s\" stroke-width=\"%s\"/>\n", x, ey, e[k].colour,
-                e[k].outline ? "#000000" : "#666666", e[k].outline ? "2.5" : "0.6");
+        if (e[k].outline == 2)
+            fprintf(f, "<rect x=\"%.1f\" y=\"%.1f\" width=\"9\" height=\"9\" fill=\"%s\" "
+                       "stroke=\"#000000\" stroke-width=\"1\" stroke-dasharray=\"2 1.5\"/>\n",
+                    x + 2, ey + 2, e[k].colour);
+        else
+            fprintf(f, "<rect x=\"%.1f\" y=\"%.1f\" width=\"13\" height=\"13\" fill=\"%s\" "
+                       "stroke=\"%s\" stroke-width=\"%s\"/>\n", x, ey, e[k].colour,
+                    e[k].outline ? "#000000" : "#666666", e[k].outline ? "2.5" : "0.6");
         bc__svg_text(f, x + 19, ey + 11, "start", 12, 0, 0, e[k].text);
     }
     if (more)
@@ -371,17 +377,21 @@ static int64_t *agent_pairs(const bc_model *m, const bc_score *s)
     return a;
 }
 
-/* Marked: covered, non-terminal, acting otherwise than the optimal policy,
- * and losing value there (regret > 0; +inf on a trap). */
+/* Marked: an action the agent takes in st is proven suboptimal by Q*
+ * (bc_score.acts); a tied action that loses value only downstream of
+ * another mistake is optimal there and not marked. */
 static int marked(const agent_ctx *c, int32_t st)
 {
-    const bc_model *m = c->m;
-    double r = c->s->state_regret[st];
-    return !m->terminal[st] && !isnan(r) && r > 0 &&
-           m->pair_action[c->agent[st]] != m->pair_action[c->s->optimum.policy[st]];
+    return c->s->acts[st] == BC_ACT_SUBOPTIMAL;
 }
 
-/* Insets on marked cells (shaded by regret on [0, rmax]) and outlines of traps. */
+static int undecided(const agent_ctx *c, int32_t st)
+{
+    return c->s->acts[st] == BC_ACT_UNDECIDED;
+}
+
+/* Insets on marked cells (shaded by regret on [0, rmax]), small dashed
+ * squares on undecided ones, and outlines of traps. */
 static void agent_marks(FILE *f, const bc_layout *l, const map_geom *g, const agent_ctx *c,
                         const uint8_t *trap, double rmax)
 {
@@ -399,6 +409,16 @@ static void agent_marks(FILE *f, const bc_layout *l, const map_geom *g, const ag
             fprintf(f, "<rect class=\"mark\" x=\"%.2f\" y=\"%.2f\" width=\"%.2f\" height=\"%.2f\" fill=\"%s\" "
                        "stroke-width=\"0.7\" vector-effect=\"non-scaling-stroke\"/>\n",
                     i + off, g->dy - 1 - j + off, inset, inset, col);
+        }
+    double small = inset * 0.6, soff = (1 - small) / 2;
+    for (int32_t j = 0; j < g->dy; j++)
+        for (int32_t i = 0; i < g->dx; i++) {
+            int32_t st = drawn_state(l, g, i, j);
+            if (st >= 0 && undecided(c, st))
+                fprintf(f, "<rect class=\"undecided\" x=\"%.2f\" y=\"%.2f\" width=\"%.2f\" "
+                           "height=\"%.2f\" fill=\"#ffffff\" stroke-width=\"1\" "
+                           "stroke-dasharray=\"2 1.5\" vector-effect=\"non-scaling-stroke\"/>\n",
+                        i + soff, g->dy - 1 - j + soff, small, small);
         }
     for (int32_t j = 0; j < g->dy; j++)
         for (int32_t i = 0; i < g->dx; i++) {
@@ -419,7 +439,7 @@ static int agent_entries(const agent_ctx *c, const bc_layout *l, const uint8_t *
     uint8_t *used = calloc((size_t)m->n_actions, 1);
     if (!used)
         return -1;
-    int terminal = 0, none = 0, uncovered = 0, any_mark = 0, any_trap = 0;
+    int terminal = 0, none = 0, uncovered = 0, any_mark = 0, any_trap = 0, any_undecided = 0;
     *rmax = 0;
     for (int64_t k = 0; k < (int64_t)l->nx * l->ny; k++) {
         int32_t st = l->state[k];
@@ -437,16 +457,19 @@ static int agent_entries(const agent_ctx *c, const bc_layout *l, const uint8_t *
                 *rmax = fmax(*rmax, c->s->state_regret[st]);
         }
         any_trap |= st >= 0 && trap[st];
+        any_undecided |= st >= 0 && undecided(c, st);
     }
-    int n = action_entries(m, used, terminal, none, e, MAX_ENTRIES - 3, more);
+    int n = action_entries(m, used, terminal, none, e, MAX_ENTRIES - 4, more);
     free(used);
     if (uncovered)
         e[n++] = (entry){COLOUR_UNCOVERED, 0, "not covered by the agent's file"};
     if (any_mark) {
         bc__seq_colour(BC__MAP_MAGMA_R, 0.5, e[n].colour);
         e[n].outline = 0;
-        e[n++].text = "inset: acts otherwise than the optimum and loses value";
+        e[n++].text = "inset: a suboptimal action";
     }
+    if (any_undecided)
+        e[n++] = (entry){"#ffffff", 2, "dashed: undecided by the proof"};
     if (any_trap)
         e[n++] = (entry){"#ffffff", 1, "outlined: trap (never finishes)"};
     return n;

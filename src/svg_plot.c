@@ -1,9 +1,10 @@
-/* svg_plot.c — line plots: any series on linear or logarithmic axes, and the two panels of a grid refinement. */
+/* svg_plot.c — line plots: any series on linear or logarithmic axes, the two panels of a grid refinement, a solve's residual per iteration. */
 /* SPDX-License-Identifier: GPL-3.0-or-later */
 #include "svg_internal.h"
 
 #include <math.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 /* A point is drawn when finite and, on a log axis, positive. */
@@ -62,16 +63,17 @@ static void series_colour(const bc_plot_series *se, int32_t k, char out[8])
         bc__action_colour(k, out);
 }
 
-/* The line of one series, broken where points are left out, then its markers and error bars. */
+/* The line of series k, broken where points are left out (each piece of
+ * class "series-k"), then its markers and error bars. */
 static void draw_series(FILE *f, const bc_plot *p, const bc__frame *fr, const bc_plot_series *se,
-                        const char *colour)
+                        const char *colour, int32_t k)
 {
     int open = 0;
     for (int32_t i = 0; i <= se->n; i++) {
         int ok = i < se->n && usable(p, se->x[i], se->y[i]);
         if (ok && !open)
-            fprintf(f, "<polyline fill=\"none\" stroke=\"%s\" stroke-width=\"%s\"%s points=\"",
-                    colour, se->dashed ? "1.2" : "1.8",
+            fprintf(f, "<polyline class=\"series-%d\" fill=\"none\" stroke=\"%s\" "
+                       "stroke-width=\"%s\"%s points=\"", (int)k, colour, se->dashed ? "1.2" : "1.8",
                     se->dashed ? " stroke-dasharray=\"6 4\"" : "");
         if (ok)
             fprintf(f, "%s%.1f,%.1f", open ? " " : "", bc__frame_px(fr, 0, se->x[i]),
@@ -130,7 +132,7 @@ static void plot_panel(FILE *f, const bc_plot *p, double px, double py, double p
     char col[8];
     for (int32_t s = 0; s < p->n_series; s++) {
         series_colour(&p->series[s], s, col);
-        draw_series(f, p, &fr, &p->series[s], col);
+        draw_series(f, p, &fr, &p->series[s], col, s);
     }
     bc__frame_axes(f, &fr, p->x_label, p->y_label);
 }
@@ -184,5 +186,122 @@ int bc_svg_convergence(FILE *f, const bc_convergence *c)
     plot_panel(f, &left, 0, 0, 500, 420);
     plot_panel(f, &right, 500, 0, 500, 420);
     bc__svg_end(f);
+    return ferror(f) ? -1 : 0;
+}
+
+/* ------------------------------------------------------------------------ */
+/* A solve's convergence history                                            */
+/* ------------------------------------------------------------------------ */
+
+#define TRACE_SERIES 8 /* at most four runs of one method, two series each */
+
+static const char *method_words(bc_method m)
+{
+    switch (m) {
+    case BC_METHOD_VI: return "value iteration";
+    case BC_METHOD_PI: return "policy iteration";
+    default: return bc_method_name(m);
+    }
+}
+
+/* The x, residual and bound arrays of a history: a run of points of one
+ * method continues the count of the run before it. */
+typedef struct {
+    double *x, *res, *bound;
+    int32_t run_start[TRACE_SERIES / 2 + 1]; /* first point of each run; runs end at the next */
+    bc_method run_method[TRACE_SERIES / 2];
+    int32_t n_runs;
+    int64_t zeros;   /* residuals of exactly 0: not drawn on the log axis */
+    int any_bound;
+} trace_data;
+
+static int trace_data_fill(trace_data *d, const bc_trace_point *t, int32_t n)
+{
+    memset(d, 0, sizeof *d);
+    d->x = malloc((size_t)(n ? n : 1) * sizeof *d->x);
+    d->res = malloc((size_t)(n ? n : 1) * sizeof *d->res);
+    d->bound = malloc((size_t)(n ? n : 1) * sizeof *d->bound);
+    if (!d->x || !d->res || !d->bound)
+        return -1;
+    double offset = 0, last = 0;
+    for (int32_t i = 0; i < n; i++) {
+        if (i == 0 || t[i].method != t[i - 1].method) {
+            if (d->n_runs == TRACE_SERIES / 2)
+                break; /* more runs than a picture can tell apart: the rest is left out */
+            d->run_method[d->n_runs] = t[i].method;
+            d->run_start[d->n_runs++] = i;
+            offset = last;
+        }
+        d->x[i] = offset + (double)t[i].iteration;
+        last = d->x[i];
+        d->res[i] = t[i].residual;
+        d->bound[i] = t[i].bound >= 0 ? t[i].bound : NAN;
+        d->zeros += t[i].residual == 0;
+        d->any_bound |= t[i].bound > 0;
+        d->run_start[d->n_runs] = i + 1;
+    }
+    return 0;
+}
+
+static void trace_data_free(trace_data *d)
+{
+    free(d->x), free(d->res), free(d->bound);
+}
+
+int bc_svg_residual(FILE *f, const bc_trace_point *trace, int64_t n, int64_t stride,
+                    const char *name)
+{
+    trace_data d;
+    int32_t np = n > INT32_MAX ? INT32_MAX : (int32_t)n;
+    if (trace_data_fill(&d, trace, np) < 0) {
+        trace_data_free(&d);
+        return -1;
+    }
+    bc_plot_series se[TRACE_SERIES];
+    char labels[TRACE_SERIES][48], title[400];
+    int32_t ns = 0;
+    size_t len = (size_t)snprintf(title, sizeof title, "Residual per iteration: ");
+    for (int32_t r = 0; r < d.n_runs; r++) {
+        int32_t a = d.run_start[r], k = d.run_start[r + 1] - a;
+        const char *short_name = bc_method_name(d.run_method[r]);
+        snprintf(labels[ns], sizeof labels[ns], "residual (%s)", short_name);
+        se[ns] = (bc_plot_series){d.x + a, d.res + a, NULL, k, labels[ns], 0};
+        ns++;
+        int bounded = 0;
+        for (int32_t i = a; i < a + k; i++)
+            bounded |= d.bound[i] > 0;
+        if (!bounded)
+            continue; /* no bound proven along this run: no legend entry for one */
+        snprintf(labels[ns], sizeof labels[ns], "proven bound (%s)", short_name);
+        se[ns] = (bc_plot_series){d.x + a, d.bound + a, NULL, k, labels[ns], 0};
+        ns++;
+    }
+    for (int32_t r = 0; r < d.n_runs && len < sizeof title; r++)
+        len += (size_t)snprintf(title + len, sizeof title - len, "%s%s", r ? ", then " : "",
+                                method_words(d.run_method[r]));
+    bc_plot p = {title, "iteration (sweeps, then steps)", "residual, bound", 0, 1, se, ns};
+    if (d.n_runs < 2)
+        p.x_label = d.n_runs && d.run_method[0] == BC_METHOD_PI ? "improvement step" : "sweep";
+    char note[600];
+    size_t nl = 0;
+    note[0] = 0;
+    if (name)
+        nl += (size_t)snprintf(note, sizeof note, "%.300s; ", name);
+    if (stride > 1 && nl < sizeof note)
+        nl += (size_t)snprintf(note + nl, sizeof note - nl, "1 iteration in %lld kept (a long "
+                               "run is thinned); ", (long long)stride);
+    if (d.zeros > 0 && nl < sizeof note)
+        nl += (size_t)snprintf(note + nl, sizeof note - nl, "%lld residual%s of 0 not drawn "
+                               "(logarithmic axis); ", (long long)d.zeros, d.zeros == 1 ? "" : "s");
+    if (!d.any_bound && nl < sizeof note)
+        nl += (size_t)snprintf(note + nl, sizeof note - nl, "no proven bound along the way; ");
+    if (nl >= 2 && nl < sizeof note)
+        note[nl - 2] = 0;
+    bc__svg_begin(f, 720, note[0] ? 440 : 420, title);
+    plot_panel(f, &p, 0, 0, 720, 420);
+    if (note[0])
+        bc__svg_text(f, 10, 432, "start", 11, 0, 0, note);
+    bc__svg_end(f);
+    trace_data_free(&d);
     return ferror(f) ? -1 : 0;
 }

@@ -42,7 +42,8 @@ echo
 echo "== bellcheck refine models/crater-rover.task --cells 16x16,32x32,64x64"
 echo "   (each grid's proven optimum, how it converges, and its policy simulated in the task:"
 echo "   does a finer grid give a better controller?)"
-$BC refine models/crater-rover.task --cells 16x16,32x32,64x64 --json "$OUT/rover-refine.json"
+$BC refine models/crater-rover.task --cells 16x16,32x32,64x64 --json "$OUT/rover-refine.json" \
+    --html "$OUT/rover-refine.html"
 echo
 echo "Wrote $OUT/solution.json, $OUT/policy.csv, $OUT/score.json, $OUT/rover-q.npy,"
 echo "$OUT/rover-score.json, $OUT/rover-rollout.json and $OUT/rover-refine.json."
@@ -58,4 +59,5 @@ set -e
 $BC solve models/crater-rover.task --cells 40x40 --quiet --html "$OUT/rover-report.html" \
     --svg "$OUT/rover-pictures"
 echo "Wrote $OUT/drone-report.html and $OUT/rover-report.html (open them in a browser; they print"
-echo "too) and the maps in $OUT/drone-pictures/ and $OUT/rover-pictures/."
+echo "too), the maps in $OUT/drone-pictures/ and $OUT/rover-pictures/, and the refinement study's"
+echo "page $OUT/rover-refine.html."

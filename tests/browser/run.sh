@@ -39,6 +39,16 @@ shot score-page "$out/score.html" 1024 2400 '#009e73:2000' '#e69f00:2000'
 [ $? -eq 0 ] && note "PASS solve page written" || note "FAIL solve page written"
 shot solve-page "$out/solve.html" 1024 2000 '#009e73:2000' '#0072b2:2000' '#fde725:200'
 
+# The refine page of the crater rover: only its two pictures draw in pure black
+# (#000000: the plots' frames, the trajectories' end squares and start circles;
+# text and table lines are #1a1a1a and #bbbbbb), and only pictures are framed in
+# #dddddd (the page's style sheet).  Measured without the pictures: no black
+# pixel and about 150 of #dddddd; with them about 3,400 and 5,700.
+"$BELLCHECK" refine models/crater-rover.task --cells 8x8,16x16,32x32 --episodes 200 --quiet \
+  --html "$out/refine.html"
+[ $? -eq 0 ] && note "PASS refine page written" || note "FAIL refine page written"
+shot refine-page "$out/refine.html" 1024 2600 '#000000:1500' '#dddddd:3000'
+
 # Printed: the print style sheet yields a whole PDF (header, end marker, more than a blank page's bytes).
 if [ -n "$browser" ]; then
   timeout 120 "$browser" --headless --no-sandbox --disable-gpu --no-first-run --user-data-dir="$out/profile" \

@@ -1,4 +1,4 @@
-# hostile_inputs.sh — inputs that are not plain files or lie about themselves: directories, unreadable files, standard input, huge numbers and lines, NPY headers that lie, --max-memory.
+# hostile_inputs.sh — inputs that are not plain files or lie about themselves (directories, unreadable files, standard input, huge numbers and lines, NPY headers that lie), --max-memory, Ctrl-C.
 # SPDX-License-Identifier: GPL-3.0-or-later
 # Companion of tests/bad/ (whose files are fixed); these cases need a special
 # path, a pipe, or a file too large to commit.  Expected statuses and words
@@ -150,3 +150,111 @@ for cmd in check solve score; do
   bc "$cmd" --help
   expect_in "$cmd --help lists --max-memory" "$out" "--max-memory BYTES"
 done
+
+# ---- --max-memory beyond reading: the grid builder, the builder, the exact solver ----
+# The estimates are those of docs/limits.md, worked out by hand here.
+# crater-rover on 2x2 cells: 4 cells and `stop` (17 bytes each), 4 x 3 pairs with one
+# successor each (24 + 12 bytes), 16 sample points (24 bytes each): 85 + 432 + 384 = 901 bytes.
+task="$ROOT/models/crater-rover.task"
+bc grid "$task" --cells 2x2 --max-memory 900 -o "$TMP/g.bell"
+expect_status "--max-memory one byte below a grid model's estimate: exit 2" 2
+expect_in "--max-memory refuses a grid model: says the estimate" "$err" "the grid model of 2x2 cells (4 cells x 3 actions, counting one successor each) needs 901 bytes, more than the memory limit of 900 bytes (--max-memory)"
+if [ -e "$TMP/g.bell" ]; then fail "--max-memory refuses a grid model: no output" "g.bell written"; else pass "--max-memory refuses a grid model: no output"; fi
+bc grid "$task" --cells 2x2 --max-memory 901 -o "$TMP/g.bell"
+expect_status "--max-memory at a grid model's estimate: exit 0" 0
+# 4096x4096 cells: 16777217 states, 50331648 pairs: 2097152401 bytes = 1.95 GiB, refused at once.
+bc grid "$task" --cells 4096x4096 --max-memory 100M -o "$TMP/g.bell"
+expect_status "--max-memory refuses a 4096x4096 grid before building it: exit 2" 2
+expect_in "--max-memory refuses a 4096x4096 grid: 2.0 GiB" "$err" "needs 2.0 GiB, more than the memory limit of 100.0 MiB"
+# A model whose file fits the limit but whose arrays do not: Garnet 20000 x 4 x 5 (a 7.5 MB
+# file; 80000 pairs and 400000 transitions need at least 17 x 20000 + 24 x 80000 + 12 x 400000
+# bytes = 6.7 MiB, and the builder refuses when its arrays would double past 8 MiB).
+"$BUILD/bench/garnet" --states 20000 --actions 4 --branch 5 --discount 0.99 --seed 1 -o "$TMP/g20k.bell"
+bc check "$TMP/g20k.bell" --max-memory 8M --quiet
+expect_status "--max-memory below the built model's arrays: exit 2" 2
+expect_in "--max-memory below the built model's arrays: the builder says so" "$err" "growing the model to"
+expect_in "--max-memory below the built model's arrays: names the option" "$err" "more than the memory limit of 8.0 MiB (--max-memory)"
+bc check "$TMP/g20k.bell" --max-memory 20M --quiet
+expect_status "--max-memory above the built model's arrays: exit 0" 0
+# Exact evaluation of Garnet 300 x 4 x 5 (auto: the sparse factor outgrows its budget, then
+# dense lifting): 300 x 300 entries x 16 bytes = 1440000 bytes = 1.4 MiB.
+"$BUILD/bench/garnet" --states 300 --actions 4 --branch 5 --discount 0.99 --seed 1 -o "$TMP/g300.bell"
+bc solve "$TMP/g300.bell" --proof exact --max-memory 1M --show 0 --json "$TMP/g300.json"
+expect_status "--max-memory refuses dense exact evaluation: exit 3" 3
+expect_in "--max-memory refuses dense exact evaluation: says why" "$err" "exact evaluation by dense lifting (300 equations, 90000 matrix entries) needs 1.4 MiB, more than the memory limit of 1.0 MiB (--max-memory)"
+if [ -e "$TMP/g300.json" ]; then fail "--max-memory refuses dense exact evaluation: no output" "json written"; else pass "--max-memory refuses dense exact evaluation: no output"; fi
+bc solve "$TMP/g300.bell" --proof exact --max-memory 2M --show 0
+expect_status "--max-memory above dense exact evaluation: exit 0" 0
+
+# ---- Ctrl-C during a long solve (SIGINT): the best proven bound, exit 130, no output ----
+# The command runs under Python with SIGINT at its default (a shell would start a background
+# job with SIGINT ignored); the signal is sent once the process has used 1 s of CPU time,
+# when it is surely solving (reading these models takes a few hundredths of a second).
+# Waiting for that point is not a timed assertion: what is checked holds whenever it comes.
+interrupt() { # interrupt DIR ARGS...: runs bellcheck ARGS in DIR, Ctrl-C after 1 s of CPU
+  dir=$1; shift
+  (cd "$dir" && "$PY" -c '
+import os, signal, subprocess, sys, time
+p = subprocess.Popen(sys.argv[1:], stdout=open("../stdout", "w"), stderr=open("../stderr", "w"),
+                     preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL))
+def cpu_ticks():
+    fields = open("/proc/%d/stat" % p.pid).read().rsplit(")", 1)[1].split()
+    return int(fields[11]) + int(fields[12])
+while p.poll() is None and cpu_ticks() < os.sysconf("SC_CLK_TCK"):
+    time.sleep(0.02)
+p.send_signal(signal.SIGINT)
+sys.exit(p.wait() if p.returncode is None else 200)  # 200: it ended before the signal
+' "$BELLCHECK" "$@"); status=$?; out="$TMP/stdout"; err="$TMP/stderr"
+}
+# A 100 x 100 grid world at discount 0.9999 (tests/bench/gridworld): value iteration needs far
+# more than a minute for a bound of 1e-12, so the signal always comes during the solve.
+"$BUILD/bench/gridworld" --width 100 --height 100 --discount 0.9999 -o "$TMP/slow.bell"
+mkdir "$TMP/run"
+interrupt "$TMP/run" solve ../slow.bell --method vi --tol 1e-12 --json out.json --values-out v.csv --policy-out p.csv
+expect_status "Ctrl-C during value iteration: exit 130" 130
+expect_in "Ctrl-C during value iteration: says so" "$err" "bellcheck solve: interrupted (Ctrl-C) during vi after"
+expect_in "Ctrl-C during value iteration: the best proven bound" "$err" "the best bound proven so far is max |V - V*| <="
+expect_in "Ctrl-C during value iteration: no output" "$err" "no output file was written"
+if [ -z "$(ls -A "$TMP/run")" ]; then pass "Ctrl-C during value iteration: no file, not even a temporary one"
+else fail "Ctrl-C during value iteration: no file, not even a temporary one" "$(ls -A "$TMP/run")"; fi
+interrupt "$TMP/run" solve ../slow.bell --method pi --tol 1e-12 --json out.json
+expect_status "Ctrl-C during policy iteration: exit 130" 130
+expect_in "Ctrl-C during policy iteration: the best proven bound" "$err" "during pi after"
+if [ -z "$(ls -A "$TMP/run")" ]; then pass "Ctrl-C during policy iteration: no file"
+else fail "Ctrl-C during policy iteration: no file" "$(ls -A "$TMP/run")"; fi
+# refine: a 512x512 grid of the crater rover takes seconds to build (2.4 million transitions).
+interrupt "$TMP/run" refine "$task" --cells 8x8,512x512 --json out.json
+expect_status "Ctrl-C during refine: exit 130" 130
+expect_in "Ctrl-C during refine: names the grid" "$err" "bellcheck refine: interrupted (Ctrl-C) during grid 2 of the study"
+if [ -z "$(ls -A "$TMP/run")" ]; then pass "Ctrl-C during refine: no file"
+else fail "Ctrl-C during refine: no file" "$(ls -A "$TMP/run")"; fi
+
+# ---- tasks and certificates: odd but valid, and empty -------------------------
+printf '\357\273\277task 1\r\ndiscount\t0.9\r\nstate x 0 1\r\naction\tu = {a: 1}\r\nnext x =\tx\r\nreward 1\r\ninitial x = 0' |
+  "$BELLCHECK" check - --cells 4 >"$TMP/stdout" 2>"$TMP/stderr"; status=$?
+expect_status "a task (BOM, CRLF, tabs, no final newline) on standard input: exit 0" 0
+printf '  \n# only a comment\n' >"$TMP/blank.task"
+bc check "$TMP/blank.task" --cells 4
+expect_status "a task of blanks and comments: exit 2" 2
+expect_in "a task of blanks and comments: empty, no line" "$err" "blank.task: error: the file is empty: expected a task"
+"$BELLCHECK" certify "$MODEL" --proof exact -o "$TMP/pt.cert" >"$TMP/stdout" 2>"$TMP/stderr"
+tr -d '\n' <"$TMP/pt.cert" | "$BELLCHECK" verify "$MODEL" - >"$TMP/stdout" 2>"$TMP/stderr"; status=$?
+expect_status "a certificate on one line (no final newline) on standard input: holds" 0
+: | "$BELLCHECK" verify "$MODEL" - >"$TMP/stdout" 2>"$TMP/stderr"; status=$?; err="$TMP/stderr"
+expect_status "an empty certificate on standard input: exit 2" 2
+expect_in "an empty certificate on standard input: says empty" "$err" "<stdin>: error: the file is empty: expected a certificate"
+# certify: the crater rover on 64x64 cells solves in a fraction of a second, then its exact
+# proof (discount 1) takes far longer; Ctrl-C comes during the proof.
+interrupt "$TMP/run" certify "$task" --cells 64x64 -o cert.json --json report.json
+expect_status "Ctrl-C during certify's proof: exit 130" 130
+expect_in "Ctrl-C during certify's proof: after the solve, with its bound" "$err" "bellcheck certify: interrupted (Ctrl-C) during the work after the solve"
+expect_in "Ctrl-C during certify's proof: no certificate" "$err" "no output file was written"
+if [ -z "$(ls -A "$TMP/run")" ]; then pass "Ctrl-C during certify: no file"
+else fail "Ctrl-C during certify: no file" "$(ls -A "$TMP/run")"; fi
+# grid: building the 512x512 model takes seconds; Ctrl-C stops it between cells.
+interrupt "$TMP/run" grid "$task" --cells 512x512 -o g.bell --json g.json
+expect_status "Ctrl-C during grid: exit 130" 130
+expect_in "Ctrl-C during grid: the builder stopped" "$err" "stopped on request while building the grid model"
+expect_in "Ctrl-C during grid: says so" "$err" "bellcheck grid: interrupted (Ctrl-C) during the construction of the model; no output file was written"
+if [ -z "$(ls -A "$TMP/run")" ]; then pass "Ctrl-C during grid: no file"
+else fail "Ctrl-C during grid: no file" "$(ls -A "$TMP/run")"; fi

@@ -79,11 +79,11 @@ static inline void fuzz_same_model(const bc_model *a, const bc_model *b)
                      "states read back in the same order, with the same initial mass");
     for (int64_t p = 0; p < a->n_pairs; p++)
         fuzz_require(a->pair_state[p] == b->pair_state[p] && a->pair_action[p] == b->pair_action[p] &&
-                         fuzz_num_equal(a->reward_exact[p], a, b->reward_exact[p], b),
+                         fuzz_num_equal(bc_model_reward_exact(a, p), a, bc_model_reward_exact(b, p), b),
                      "pairs read back the same");
     for (int64_t t = 0; t < a->n_trans; t++)
         fuzz_require(a->succ_state[t] == b->succ_state[t] &&
-                         fuzz_num_equal(a->prob_exact[t], a, b->prob_exact[t], b),
+                         fuzz_num_equal(bc_model_prob_exact(a, t), a, bc_model_prob_exact(b, t), b),
                      "transitions read back the same");
 }
 

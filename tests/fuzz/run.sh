@@ -2,6 +2,8 @@
 # run.sh — runs the libFuzzer targets of tests/fuzz/SEEDS for a set time each and says what they found.
 # SPDX-License-Identifier: GPL-3.0-or-later
 # Usage: tests/fuzz/run.sh FUZZ_BUILD SECONDS [TARGET...]   (`make fuzz` calls it)
+# Environment: FUZZ_RUNS (stop each target after that many executions too),
+# FUZZ_MAX_LEN (longest input, default 4096 bytes), FUZZ_TIMEOUT (seconds per input).
 # Each target keeps its growing corpus in FUZZ_BUILD/corpus/NAME (reused by
 # later runs, so a long campaign can be split); seeds are gathered afresh
 # into FUZZ_BUILD/seeds/NAME.  A crash, a sanitizer report, a broken promise
@@ -15,6 +17,8 @@ seconds=${2:?usage: run.sh FUZZ_BUILD SECONDS [TARGET...]}
 shift 2
 timeout=${FUZZ_TIMEOUT:-10}
 max_len=${FUZZ_MAX_LEN:-4096}
+# FUZZ_RUNS=N also ends each target after N executions (a long campaign's goal).
+runs=""; [ -n "${FUZZ_RUNS:-}" ] && runs="-runs=$FUZZ_RUNS"
 mkdir -p "$build/crashes" "$build/logs" || exit 2
 found=0; ran=0
 while read -r name harness seeds; do
@@ -36,7 +40,7 @@ while read -r name harness seeds; do
   dict=""; [ -f "tests/fuzz/$name.dict" ] && dict="-dict=tests/fuzz/$name.dict"
   log="$build/logs/$name.log"
   # shellcheck disable=SC2086
-  "$bin" -max_total_time="$seconds" -timeout="$timeout" -max_len="$max_len" \
+  "$bin" -max_total_time="$seconds" $runs -timeout="$timeout" -max_len="$max_len" \
     -rss_limit_mb=2048 -print_final_stats=1 -artifact_prefix="$build/crashes/$name-" \
     $dict "$corpus" "$seeddir" </dev/null >"$log" 2>&1
   rc=$?
@@ -52,7 +56,9 @@ while read -r name harness seeds; do
       [ -f "$f" ] && echo "    input $(basename "$f") (base64): $(head -c 3000 "$f" | base64 -w 0)"
     done
   else
-    echo "FUZZ $name: ${execs:-?} executions in ${seconds}s, corpus $units inputs, nothing found"
+    took=$(sed -n 's/^Done [0-9]* runs in \([0-9]*\) second.*/\1/p' "$log" | tail -n 1)
+    rate=$(sed -n 's/^stat::average_exec_per_sec: *//p' "$log" | tail -n 1)
+    echo "FUZZ $name: ${execs:-?} executions in ${took:-$seconds}s (${rate:-?}/s), corpus $units inputs, nothing found"
   fi
 done < tests/fuzz/SEEDS
 [ "$ran" -gt 0 ] || { echo "fuzz: no target ran" >&2; exit 2; }

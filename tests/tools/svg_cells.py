@@ -2,8 +2,8 @@
 """Reads a map written by bellcheck (policy.svg, value.svg, agent.svg).
 
 Usage as a module: cells(path) -> (nx, ny, {(i, j): fill}), with j counted
-upwards as the picture's variable grows; marks(path) and traps(path) -> sets
-of (i, j).  The cells are the rectangles of the first <g class="cells">
+upwards as the picture's variable grows; marks(path) -> {(i, j): fill};
+undecided(path) and traps(path) -> sets of (i, j).  The cells are the rectangles of the first <g class="cells">
 group, drawn in cell units (a rectangle x, y, width w covers cells
 x .. x+w-1 of drawn row y; rows are drawn from the top).
 
@@ -54,6 +54,11 @@ def _marked(path, cls):
 def marks(path):
     """{(i, j): fill} of the inset squares (cells acting otherwise than the optimum)."""
     return _marked(path, "mark")
+
+
+def undecided(path):
+    """The set of cells with a dashed square (optimal or not, within the proof's error)."""
+    return set(_marked(path, "undecided"))
 
 
 def traps(path):

@@ -106,7 +106,7 @@ static void test_dock_shuttle(void)
     static const int64_t pn[] = {9, 1, 1, 4, 3, 1, 1, 1}, pd[] = {10, 10, 1, 5, 20, 20, 1, 1};
     int probs_ok = 1, dprobs_ok = 1;
     for (int t = 0; t < 8; t++) {
-        probs_ok &= is_q(m->prob_exact[t], pn[t], pd[t]);
+        probs_ok &= is_q(bc_model_prob_exact(m, t), pn[t], pd[t]);
         dprobs_ok &= m->prob[t] == (double)pn[t] / (double)pd[t];
     }
     CHECK(probs_ok, "dock: prob_exact 9/10 1/10 1 4/5 3/20 1/20 1 1");
@@ -114,10 +114,10 @@ static void test_dock_shuttle(void)
     static const int64_t rw[] = {-1, 0, -2, 0, -1};
     int rw_ok = 1;
     for (int p = 0; p < 5; p++)
-        rw_ok &= is_q(m->reward_exact[p], rw[p], 1);
+        rw_ok &= is_q(bc_model_reward_exact(m, p), rw[p], 1);
     CHECK(rw_ok, "dock: reward_exact as written (-1 0 -2 0 -1)");
-    CHECK(m->outcome_exact != NULL && is_q(m->outcome_exact[3], 10, 1) &&
-              is_q(m->outcome_exact[4], 0, 1) && is_q(m->outcome_exact[0], 0, 1),
+    CHECK(m->outcome_id != NULL && is_q(bc_model_outcome_exact(m, 3), 10, 1) &&
+              is_q(bc_model_outcome_exact(m, 4), 0, 1) && is_q(bc_model_outcome_exact(m, 0), 0, 1),
           "dock: outcome reward 10 on loaded->depot only");
     /* Expected reward of `loaded drive` = -2 + 0.8 * 10 = 6 (model-format.md). */
     mpq_t r;
@@ -182,7 +182,7 @@ static void test_directives_last(void)
     CHECK(m->n_pairs == 4 && i32_eq(m->pair_action, pac, 4), "late: pair actions in the new order");
     CHECK(m->n_pairs == 4 && m->pair_line && i32_eq(m->pair_line, lines, 4), "late: pair lines follow");
     CHECK(m->n_trans == 5 && i32_eq(m->succ_state, succ, 5), "late: successors renumbered");
-    CHECK(m->n_pairs == 4 && is_q(m->reward_exact[3], 1, 1) && is_q(m->reward_exact[1], 5, 1),
+    CHECK(m->n_pairs == 4 && is_q(bc_model_reward_exact(m, 3), 1, 1) && is_q(bc_model_reward_exact(m, 1), 5, 1),
           "late: rewards follow their pairs");
     CHECK(m->initial[2] == 1.0 && m->initial[0] == 0.0 && m->initial_given, "late: initial a (index 2)");
     bc_model_free(m);
@@ -215,10 +215,10 @@ static void test_renormalise(void)
               m->renormalised_lines[1] == 3,
           "renorm: model records lines 2 and 3");
     /* 0.333333333 / 0.999999999 = 1/3 exactly; 0.5 / 1.0000000005 = 1000000000/2000000001. */
-    CHECK(is_q(m->prob_exact[0], 1, 3) && is_q(m->prob_exact[1], 2, 3), "renorm: line 2 becomes 1/3, 2/3");
-    CHECK(is_q(m->prob_exact[2], 1000000000, 2000000001) && is_q(m->prob_exact[3], 1000000001, 2000000001),
+    CHECK(is_q(bc_model_prob_exact(m, 0), 1, 3) && is_q(bc_model_prob_exact(m, 1), 2, 3), "renorm: line 2 becomes 1/3, 2/3");
+    CHECK(is_q(bc_model_prob_exact(m, 2), 1000000000, 2000000001) && is_q(bc_model_prob_exact(m, 3), 1000000001, 2000000001),
           "renorm: line 3 becomes 1000000000/2000000001, 1000000001/2000000001");
-    CHECK(is_q(m->prob_exact[4], 1, 2), "renorm: exact line untouched");
+    CHECK(is_q(bc_model_prob_exact(m, 4), 1, 2), "renorm: exact line untouched");
     bc_model_free(m);
     bc_diag_free(&d);
 
@@ -235,9 +235,9 @@ static void test_number_forms(void)
     bc_model *m = read_text("discount 0.9\na go -2.5E+2 -> a 1e-3 b 0.999\nb go 1e-3 -> b\n", &d);
     CHECK(m != NULL, "numbers: reads");
     if (m) {
-        CHECK(is_q(m->reward_exact[0], -250, 1), "numbers: -2.5E+2 = -250");
-        CHECK(is_q(m->reward_exact[1], 1, 1000), "numbers: reward 1e-3 = 1/1000");
-        CHECK(is_q(m->prob_exact[0], 1, 1000) && is_q(m->prob_exact[1], 999, 1000),
+        CHECK(is_q(bc_model_reward_exact(m, 0), -250, 1), "numbers: -2.5E+2 = -250");
+        CHECK(is_q(bc_model_reward_exact(m, 1), 1, 1000), "numbers: reward 1e-3 = 1/1000");
+        CHECK(is_q(bc_model_prob_exact(m, 0), 1, 1000) && is_q(bc_model_prob_exact(m, 1), 999, 1000),
               "numbers: probabilities 1e-3 and 0.999");
         CHECK(m->reward[0] == -250.0 && m->reward[1] == 0.001, "numbers: doubles");
     }

@@ -120,16 +120,16 @@ static const char *model_diff(const bc_model *a, const bc_model *b)
         !SAME_ARRAY(a->succ_state, b->succ_state, a->n_trans))
         return "CSR structure";
     for (int64_t t = 0; t < a->n_trans; t++) {
-        if (!num_eq(a->prob_exact[t], a->big, b->prob_exact[t], b->big) || a->prob[t] != b->prob[t])
+        if (!num_eq(bc_model_prob_exact(a, t), a->big, bc_model_prob_exact(b, t), b->big) || a->prob[t] != b->prob[t])
             return "a probability";
         bc_num zero = bc_num_int(0);
-        bc_num oa = a->outcome_exact ? a->outcome_exact[t] : zero;
-        bc_num ob = b->outcome_exact ? b->outcome_exact[t] : zero;
+        bc_num oa = a->outcome_id ? bc_model_outcome_exact(a, t) : zero;
+        bc_num ob = b->outcome_id ? bc_model_outcome_exact(b, t) : zero;
         if (!num_eq(oa, a->big, ob, b->big))
             return "an outcome reward";
     }
     for (int64_t p = 0; p < a->n_pairs; p++)
-        if (!num_eq(a->reward_exact[p], a->big, b->reward_exact[p], b->big) ||
+        if (!num_eq(bc_model_reward_exact(a, p), a->big, bc_model_reward_exact(b, p), b->big) ||
             a->reward[p] != b->reward[p])
             return "a reward";
     if (!SAME_ARRAY(a->terminal, b->terminal, a->n_states))
@@ -375,16 +375,16 @@ static void test_json_numbers(void)
     if (!m)
         return;
     CHECK(num_is(m->discount_exact, m->big, 19, 20), "numbers: 0.95 is exactly 19/20");
-    CHECK(m->n_trans == 3 && num_is(m->prob_exact[0], m->big, 1, 10),
+    CHECK(m->n_trans == 3 && num_is(bc_model_prob_exact(m, 0), m->big, 1, 10),
           "numbers: 0.1 is exactly 1/10");
-    CHECK(m->n_trans == 3 && num_is(m->prob_exact[1], m->big, 9, 10),
+    CHECK(m->n_trans == 3 && num_is(bc_model_prob_exact(m, 1), m->big, 9, 10),
           "numbers: 0.9 is exactly 9/10");
-    CHECK(num_is(m->reward_exact[0], m->big, -250, 1), "numbers: -2.5e2 is exactly -250");
-    CHECK(m->n_pairs == 2 && num_is(m->reward_exact[1], m->big, 7, 1), "numbers: 7 is 7");
-    CHECK(m->outcome_exact && num_is(m->outcome_exact[1], m->big, 7500000000000001L,
+    CHECK(num_is(bc_model_reward_exact(m, 0), m->big, -250, 1), "numbers: -2.5e2 is exactly -250");
+    CHECK(m->n_pairs == 2 && num_is(bc_model_reward_exact(m, 1), m->big, 7, 1), "numbers: 7 is 7");
+    CHECK(m->outcome_id && num_is(bc_model_outcome_exact(m, 1), m->big, 7500000000000001L,
                                      25000000000000000UL),
           "numbers: 0.30000000000000004 keeps all 17 digits");
-    CHECK(m->n_trans == 3 && num_is(m->prob_exact[2], m->big, 1, 1),
+    CHECK(m->n_trans == 3 && num_is(bc_model_prob_exact(m, 2), m->big, 1, 1),
           "numbers: a lone successor has probability 1");
     CHECK(strcmp(m->name, "t") == 0, "numbers: default name is the file's base name");
     CHECK(!m->initial_given && num_is(m->initial_exact[0], m->big, 1, 2) &&

@@ -119,7 +119,7 @@ static void test_initial(const bc_task *t)
 static int probs_multiple_of(const bc_model *m, int64_t den)
 {
     for (int64_t k = 0; k < m->n_trans; k++)
-        if (m->prob_exact[k].den <= 0 || den % m->prob_exact[k].den != 0)
+        if (bc_model_prob_exact(m, k).den <= 0 || den % bc_model_prob_exact(m, k).den != 0)
             return 0;
     return 1;
 }

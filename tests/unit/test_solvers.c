@@ -65,12 +65,12 @@ static bc_model *make_model(const model_spec *sp)
         m->pair_state[p] = q->state;
         m->pair_action[p] = q->action;
         m->reward[p] = (double)q->rn / (double)q->rd;
-        m->reward_exact[p] = (bc_num){q->rn, q->rd};
+        bc_model_set_reward_exact(m, p, (bc_num){q->rn, q->rd});
         m->pair_trans_start[p] = k;
         for (int j = 0; j < q->n_succ; j++, k++) {
             m->succ_state[k] = q->succ[j];
             m->prob[k] = (double)q->pn[j] / (double)q->pd[j];
-            m->prob_exact[k] = (bc_num){q->pn[j], q->pd[j]};
+            bc_model_set_prob_exact(m, k, (bc_num){q->pn[j], q->pd[j]});
         }
         m->state_pair_start[q->state + 1] = p + 1;
     }
@@ -112,7 +112,7 @@ static bc_model *random_model(int n, int64_t gn, int64_t gd, uint64_t seed)
             m->pair_state[p] = s;
             m->pair_action[p] = a;
             m->reward[p] = lcg(21) - 10;
-            m->reward_exact[p] = bc_num_int((int64_t)m->reward[p]);
+            bc_model_set_reward_exact(m, p, bc_num_int((int64_t)m->reward[p]));
             m->pair_trans_start[p] = k;
             int w[3], sum = 0;
             for (int j = 0; j < n_succ; j++)
@@ -120,7 +120,7 @@ static bc_model *random_model(int n, int64_t gn, int64_t gd, uint64_t seed)
             for (int j = 0; j < n_succ; j++, k++) {
                 m->succ_state[k] = lcg(n);
                 m->prob[k] = (double)w[j] / sum;
-                m->prob_exact[k] = (bc_num){w[j], sum}; /* not reduced; solvers read prob */
+                bc_model_set_prob_exact(m, k, (bc_num){w[j], sum}); /* not reduced; solvers read prob */
             }
         }
     }

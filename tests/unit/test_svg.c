@@ -553,6 +553,110 @@ static void test_refine_pictures(void)
     bc_task_free(t);
 }
 
+/* A synthetic history: four vi sweeps whose residuals and bounds fall a
+ * decade per sweep, then three pi steps, the last with residual 0 and the
+ * only bound.  Worked by hand: four series (vi residual, vi bound, pi
+ * residual, pi bound) of 4, 4, 2 and 1 points; the pi steps continue the
+ * count (x = 5, 6, 7), the zero is left out and said so. */
+static void test_residual(void)
+{
+    bc_trace_point t[7] = {{BC_METHOD_VI, 1, 1, 10},      {BC_METHOD_VI, 2, 0.1, 1},
+                           {BC_METHOD_VI, 3, 0.01, 0.1},  {BC_METHOD_VI, 4, 0.001, 0.01},
+                           {BC_METHOD_PI, 1, 0.5, -1},    {BC_METHOD_PI, 2, 0.05, -1},
+                           {BC_METHOD_PI, 3, 0, 1e-6}};
+    capture c;
+    cap_open(&c);
+    CHECK(bc_svg_residual(c.f, t, 7, 2, "a <model>") == 0, "residual: written");
+    cap_close(&c);
+    CHECK(well_formed(c.text), "residual: well-formed (xmllint)");
+    CHECK(strstr(c.text, "<title>Residual per iteration: value iteration, then policy "
+                         "iteration</title>") != NULL, "residual: both methods in the title");
+    CHECK(strstr(c.text, "a &lt;model&gt;; 1 iteration in 2 kept (a long run is thinned); 1 "
+                         "residual of 0 not drawn (logarithmic axis)") != NULL,
+          "residual: the name, the thinning and the zero left out, said under the plot");
+    double x[4][8], y[4][8];
+    int n[4];
+    for (int k = 0; k < 4; k++)
+        n[k] = polyline(c.text, k, x[k], y[k], 8);
+    CHECK(n[0] == 4 && n[1] == 4 && n[2] == 2 && n[3] == 1, "residual: 4, 4, 2 and 1 points drawn");
+    CHECK(count(c.text, "class=\"series-3\"") == 1, "residual: each series marked by its class");
+    int even = n[0] == 4 && n[2] == 2;
+    for (int k = 1; even && k < 4; k++) /* a decade per sweep: equal steps down the log axis */
+        even = fabs((x[0][k] - x[0][k - 1]) - (x[0][1] - x[0][0])) < 0.11 &&
+               fabs((y[0][k] - y[0][k - 1]) - (y[0][1] - y[0][0])) < 0.11 && y[0][k] > y[0][k - 1];
+    CHECK(even, "residual: a decade per sweep is an equal step down the log axis");
+    double step = even ? (x[0][3] - x[0][0]) / 3 : 0; /* pixels per iteration (0.1 px rounding) */
+    CHECK(even && fabs(x[2][0] - (x[0][0] + 4 * step)) < 0.2 &&
+              fabs(x[3][0] - (x[0][0] + 6 * step)) < 0.3,
+          "residual: policy iteration continues the count (steps 1 and 3 at x = 5 and 7)");
+    free(c.text);
+
+    /* Value iteration at discount 1 proves no bound: no bound series, and the note says so. */
+    bc_trace_point u[2] = {{BC_METHOD_VI, 1, 3, -1}, {BC_METHOD_VI, 2, 1, -1}};
+    cap_open(&c);
+    CHECK(bc_svg_residual(c.f, u, 2, 1, NULL) == 0, "residual without bounds: written");
+    cap_close(&c);
+    CHECK(well_formed(c.text) && count(c.text, "class=\"series-") == 1 &&
+              !strstr(c.text, "proven bound (vi)") && strstr(c.text, "no proven bound along the way"),
+          "residual without bounds: one series, no bound in the legend, a note");
+    free(c.text);
+}
+
+/* The HTML page of the synthetic study above: well-formed, both pictures,
+ * one row per grid in each table, the failed grid said so. */
+static void test_refine_page(void)
+{
+    bc_diag d;
+    bc_diag_init(&d);
+    bc_task *t = bc_task_read_text(cube, strlen(cube), "cube.task", &d);
+    bc_diag_free(&d);
+    if (!t) {
+        CHECK(0, "refine page: task read");
+        return;
+    }
+    bc_refine_level lv[2];
+    memset(lv, 0, sizeof lv);
+    double a[3 * 2] = {0.1, 0.1, 0.5, 0.9, 0.4, 0.5};
+    bc_trajectory tr = {.n_points = 2, .x = a};
+    const char *cells[2] = {"4x4x4", "8x8x8"};
+    for (int k = 0; k < 2; k++) {
+        const char *why;
+        bc_grid_opts_default(&lv[k].grid);
+        bc_grid_parse_cells(cells[k], &lv[k].grid, &why);
+        lv[k].h = 1.0 / (4 << k);
+        lv[k].value = 2 - lv[k].h;
+        lv[k].value_proof = (bc_proof){k ? BC_PROOF_EXACT : BC_PROOF_INTERVAL, 1e-3};
+        lv[k].difference = k ? 0.125 : NAN;
+        lv[k].order = lv[k].extrapolated = NAN;
+    }
+    lv[0].status = BC_REFINE_UNUSABLE;
+    snprintf(lv[0].message, sizeof lv[0].message, "a <bad> grid");
+    lv[1].trajectories = &tr;
+    lv[1].n_trajectories = 1;
+    bc_refine r = {.n_levels = 2, .level = lv, .extrapolated = NAN};
+    snprintf(r.note, sizeof r.note, "fewer than three grids");
+    bc_refine_opts o;
+    bc_refine_opts_default(&o);
+    capture c;
+    cap_open(&c);
+    CHECK(bc_report_html_refine(c.f, t, &r, &o, "cube.task", NULL) == 0, "refine page: written");
+    cap_close(&c);
+    CHECK(well_formed(c.text), "refine page: well-formed (xmllint)");
+    CHECK(count(c.text, "<svg") == 2, "refine page: the convergence plot and the trajectories inline");
+    CHECK(count(c.text, "<td>8x8x8</td>") == 2 && count(c.text, "<td>4x4x4</td>") == 2,
+          "refine page: each grid in both tables");
+    CHECK(strstr(c.text, "unusable</span>: a &lt;bad&gt; grid") &&
+              strstr(c.text, "1 of 2 grids FAILED") && strstr(c.text, "verdict failed"),
+          "refine page: the failed grid, escaped, and the verdict says so");
+    CHECK(strstr(c.text, "<span class=\"proof exact\">exact</span>") &&
+              strstr(c.text, "No extrapolated optimum: fewer than three grids."),
+          "refine page: the proof badge and why there is no extrapolation");
+    CHECK(strstr(c.text, "It is not a proof about the physical system") != NULL,
+          "refine page: the safety statement");
+    free(c.text);
+    bc_task_free(t);
+}
+
 int main(void)
 {
     test_colours();
@@ -565,5 +669,7 @@ int main(void)
     test_convergence();
     test_trajectories();
     test_refine_pictures();
+    test_residual();
+    test_refine_page();
     UNIT_DONE();
 }
