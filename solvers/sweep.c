@@ -18,13 +18,15 @@
  * that the streamed arrays also pass through), each one waits on the
  * shared cache or on memory, and one core keeps only a few such misses in
  * flight.  So the loop asks for data ahead of use, with prefetch hints
- * that change no result (docs/performance.md has the measurements):
+ * that change no result:
  *  - the successor value GATHER_AHEAD transitions ahead, into the nearest
- *    cache, so that many gathers are in flight at once;
+ *    cache, so that more gathers are in flight at once;
  *  - per pair, the line of probabilities and of successor indices
- *    STREAM_AHEAD transitions ahead, as non-temporal, so that the streamed
- *    arrays are read once without pushing the values out of the core's
- *    cache.
+ *    STREAM_AHEAD transitions ahead, as non-temporal (read once).
+ * Measured (docs/performance.md, "The sweep kernel"): 11% to 21% less time
+ * per sweep on random models of 10^6 and 10^7 states, no difference at
+ * 200,000, where the misses of the L2 set the pace; other distances (8 to
+ * 128 for the gathers, 64 to 256 for the streams) did no better.
  * Indices ahead are clamped to the last transition: every address read is
  * inside the arrays (the successor index of a hint is a real load).
  */
@@ -55,7 +57,7 @@ double bc__sweep_bytes(const bc_model *m)
            (double)m->n_states * (sizeof(int64_t) + sizeof(uint8_t) + 2 * sizeof(double));
 }
 
-/* Prefetch distances, in transitions (measured; see the comment above). */
+/* Prefetch distances, in transitions (see the comment at the top). */
 enum { GATHER_AHEAD = 24, STREAM_AHEAD = 128 };
 
 #if defined(__GNUC__)
