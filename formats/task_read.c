@@ -18,6 +18,7 @@
  */
 #include "task_internal.h"
 
+#include <float.h>
 #include <math.h>
 #include <stdarg.h>
 #include <stdint.h>
@@ -248,6 +249,9 @@ static int discount_line(reader *r, const char *at)
     if (bc_num_sign(g, r->t->big) <= 0 || bc_num_cmp(g, bc_num_int(1), r->t->big) > 0)
         return fail(r, s, "the discount must satisfy 0 < discount <= 1; found %.*s",
                     (int)(r->p - s), s);
+    if (dg < DBL_MIN) /* as the model builder: a discount that rounds to 0 proves nothing */
+        return fail(r, s, "the discount %.*s is too small to compute with: it must be at least "
+                    "2.2250738585072014e-308 (the smallest normal double)", (int)(r->p - s), s);
     r->t->discount_exact = g;
     r->t->discount = dg;
     return expect_end(r);

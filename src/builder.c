@@ -15,6 +15,7 @@
 #include "builder_internal.h"
 
 #include <assert.h>
+#include <float.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -270,6 +271,16 @@ int bc_builder_discount(bc_builder *b, bc_num g, bc_pos at)
     if (bc_num_sign(g, b->big) <= 0 || bc_num_cmp(g, bc_num_int(1), b->big) > 0) {
         char *text = bc_num_text(g, b->big);
         bc__builder_report(b, BC_ERROR, at, "the discount must satisfy 0 < discount <= 1; found %s",
+                           bc__abbrev(text));
+        free(text);
+        return -1;
+    }
+    if (bc_num_to_double(g, b->big) < DBL_MIN) {
+        /* bellcheck computes in doubles: a discount that rounds to 0 (or
+         * below the normal range) would make every bound meaningless. */
+        char *text = bc_num_text(g, b->big);
+        bc__builder_report(b, BC_ERROR, at, "the discount %s is too small to compute with: it "
+                           "must be at least 2.2250738585072014e-308 (the smallest normal double)",
                            bc__abbrev(text));
         free(text);
         return -1;
