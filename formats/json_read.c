@@ -390,7 +390,7 @@ static int read_initial(json_ctx *c, const cJSON *v)
         if (bc_diag_full(c->d))
             break;
     }
-    if (bc_builder_initial_end(c->b, here(c)) < 0)
+    if (rc == 0 && bc_builder_initial_end(c->b, here(c)) < 0) /* after an error it would only echo it */
         rc = -1;
     path_cut(c, old);
     return rc;

@@ -96,6 +96,13 @@ int bc_builder_initial_add(bc_builder *b, const char *name, size_t len, const bc
         return bc__builder_report(b, BC_ERROR, at, "state `%.*s` appears twice in `initial`",
                                   (int)len, name);
     b->states.listed[s] |= BC_LISTED_INITIAL;
+    if (p && bc_num_sign(*p, b->big) < 0) { /* the text reader refuses it itself; JSON comes here */
+        char *text = bc_num_text(*p, b->big);
+        bc__builder_report(b, BC_ERROR, at, "a probability must not be negative: `%s` (state `%.*s` in "
+                           "`initial`)", text ? bc__abbrev(text) : "?", (int)len, name);
+        free(text);
+        return -1;
+    }
     if (b->n_init == b->cap_init) {
         int64_t cap = b->cap_init ? 2 * b->cap_init : 16;
         if (bc__resize((void **)&b->init_state, b->cap_init, cap, sizeof *b->init_state) < 0 ||
