@@ -136,7 +136,8 @@ void bc__sweep_jacobi(const bc_model *m, double sgn, const double *v, double *tv
         tv[s] = t;
         lo = d < lo ? d : lo;
         hi = d > hi ? d : hi;
-        double av = fmax(fabs(t), fabs(v[s]));
+        double at = fabs(t), av = fabs(v[s]); /* not fmax: gcc calls it through the PLT */
+        vmax = at > vmax ? at : vmax;
         vmax = av > vmax ? av : vmax;
     }
     st->dmin = n ? lo : 0.0;
