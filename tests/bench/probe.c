@@ -120,7 +120,8 @@ static int dump(const bc_model *m, const char *prefix)
              write_array(prefix, "tstart", m->pair_trans_start, (size_t)m->n_pairs + 1, 8) |
              write_array(prefix, "succ", m->succ_state, (size_t)m->n_trans, 4) |
              write_array(prefix, "prob", m->prob, (size_t)m->n_trans, 8) |
-             write_array(prefix, "reward", r, (size_t)m->n_pairs, 8);
+             write_array(prefix, "reward", r, (size_t)m->n_pairs, 8) |
+             write_array(prefix, "initial", m->initial, (size_t)m->n_states, 8);
     free(r);
     return rc;
 }

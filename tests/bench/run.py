@@ -152,7 +152,7 @@ def measure(name, path, bw, with_baseline):
     bc = bellcheck(path, once)
     bl = baseline(dump) if with_baseline else None
     if dump:
-        for ext in ("meta", "spstart", "tstart", "succ", "prob", "reward"):
+        for ext in ("meta", "spstart", "tstart", "succ", "prob", "reward", "initial"):
             os.remove(dump + "." + ext)
     limit = pr["sweep_bytes"] / (bw * 1e9)
     row = {"model": name, "states": pr["n_states"], "pairs": pr["n_pairs"], "trans": pr["n_trans"],
