@@ -147,7 +147,7 @@ static double max_abs_diff(const double *a, const double *b, int n)
  * s2: a21 reward -1 -> s2.  By hand: v(s2) = -1/(1 - 0.95) = -20;
  * a11 gives v = 5 + 0.95 (v/2 - 10), v = -4.5/0.525 = -60/7 = -8.571...;
  * a12 gives 10 - 19 = -9 < -60/7, so a11 is optimal. */
-static void test_puterman_two_state(void)
+static bc_model *puterman_model(void)
 {
     static const char *const st[] = {"s1", "s2"};
     static const char *const ac[] = {"a11", "a12", "a21"};
@@ -157,7 +157,12 @@ static void test_puterman_two_state(void)
         {1, 2, -1, 1, 1, {1}, {1}, {1}},
     };
     model_spec sp = {st, 2, ac, 3, "00", pairs, 3, 19, 20, BC_MAX, 0};
-    bc_model *m = make_model(&sp);
+    return make_model(&sp);
+}
+
+static void test_puterman_two_state(void)
+{
+    bc_model *m = puterman_model();
     CHECK(m && !bc_model_check_invariants(m), "puterman: model built");
     const double exact[2] = {-60.0 / 7.0, -20.0};
     const bc_method methods[3] = {BC_METHOD_VI, BC_METHOD_PI, BC_METHOD_LP};
@@ -437,15 +442,7 @@ static void test_agreement(int64_t gn, int64_t gd, double floor_, const char *la
  * a rounding allowance far below 1e-9). */
 static void test_trace_and_stop(void)
 {
-    static const char *const st[] = {"s1", "s2"};
-    static const char *const ac[] = {"a11", "a12", "a21"};
-    static const pair_spec pairs[] = {
-        {0, 0, 5, 1, 2, {0, 1}, {1, 1}, {2, 2}},
-        {0, 1, 10, 1, 1, {1}, {1}, {1}},
-        {1, 2, -1, 1, 1, {1}, {1}, {1}},
-    };
-    model_spec sp = {st, 2, ac, 3, "00", pairs, 3, 19, 20, BC_MAX, 0};
-    bc_model *m = make_model(&sp);
+    bc_model *m = puterman_model();
     const double exact[2] = {-60.0 / 7.0, -20.0};
     bc_solve_opts o;
     bc_solve_opts_default(&o);
