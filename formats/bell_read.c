@@ -684,12 +684,6 @@ static int is_directive(const token *t)
     return 0;
 }
 
-int bc__bell_is_directive(const char *word, size_t len)
-{
-    token t = {.s = word, .len = len};
-    return is_directive(&t);
-}
-
 static int directive_line(reader *r, const char *end)
 {
     token *k = &r->tok[0];

@@ -17,8 +17,5 @@ int64_t bc__bell_reader_lines(bc__bell_reader *r, const char *buf, size_t len, i
 /* The model (NULL if any error was reported); frees r. */
 bc_model *bc__bell_reader_finish(bc__bell_reader *r);
 void bc__bell_reader_free(bc__bell_reader *r); /* gives up: frees r; NULL is allowed */
-/* 1 when word[0..len) is a directive keyword of the text format (`name`, `states`, ...):
- * a line starting with it is that directive, never a transition line. */
-int bc__bell_is_directive(const char *word, size_t len);
 
 #endif

@@ -14,7 +14,6 @@
  * nesting depth is checked (at most JSON_MAX_DEPTH) before cJSON recurses.
  */
 #include "bellcheck.h"
-#include "bell_read_internal.h"
 #include "json_internal.h"
 
 #include <assert.h>
@@ -538,15 +537,6 @@ static int read_transition(json_ctx *c, const cJSON *t, succ_list *list)
     path_cut(c, old);
     if (!state || !action || !reward_ok || !next_ok)
         return -1;
-    if (bc__bell_is_directive(state, strlen(state))) {
-        /* In the text form this state's line would read as the directive:
-         * the model could not be written as .bell and read back. */
-        path_key(c, "state");
-        fail(c, "a state that has transitions cannot be named `%s`: in the .bell text form a "
-             "line starting with `%s` is that directive; rename the state", state, state);
-        path_cut(c, old);
-        return -1;
-    }
     return feed_pair(c, state, action, reward, list);
 }
 
