@@ -19,6 +19,7 @@
 #include "bellcheck.h"
 #include "bell_read_internal.h"
 
+#include <stddef.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -310,12 +311,20 @@ static int reserve_tokens(reader *r, size_t more)
     return 0;
 }
 
+/* Column (1-based) of p in the current line; saturates at INT32_MAX like the
+ * line counter, as in the other readers. */
+static int32_t column_of(const reader *r, const char *p)
+{
+    ptrdiff_t off = p - r->line_start;
+    return off >= INT32_MAX - 1 ? INT32_MAX : (int32_t)off + 1;
+}
+
 /* Opens a token at p. */
 static void token_open(reader *r, const char *p)
 {
     token *t = &r->tok[r->n_tok++];
     t->s = p;
-    t->col = (int32_t)(p - r->line_start) + 1;
+    t->col = column_of(r, p);
 }
 
 /* Closes the oldest open token at p (tokens close in the order they open). */
@@ -663,6 +672,25 @@ static int name_line(reader *r, const char *end)
         q--;
     if (q == p)
         return report(r, &r->tok[0], "`%.*s` needs a text", r->tok[0].s, r->tok[0].len);
+    /* The label goes into reports and the JSON form as it is, so it must be
+     * text: bytes that are not UTF-8 would not survive the JSON form. */
+    size_t ok = bc_utf8_valid_prefix(p, (size_t)(q - p));
+    if (ok < (size_t)(q - p)) {
+        r->errors++;
+        bc_diag_add(r->diag, BC_ERROR, r->file, r->line, column_of(r, p + ok),
+                    "the label holds a byte that is not UTF-8 (0x%02X); a model is UTF-8 text",
+                    (unsigned)(unsigned char)p[ok]);
+        return -1;
+    }
+    /* A state called `name` cannot have transition lines: its line would be
+     * this directive.  Say so when the label looks like one. */
+    for (size_t i = 1; i < r->n_tok && r->tok[i].s < q; i++)
+        if (is_arrow(&r->tok[i])) {
+            bc_diag_add(r->diag, BC_WARNING, r->file, r->line, r->tok[0].col,
+                        "this line is the model's label, `->` and all; a state called `name` "
+                        "cannot have transition lines (rename the state if one was meant)");
+            break;
+        }
     return bc_builder_name(r->b, p, (size_t)(q - p), pos_of(r, &r->tok[0]));
 }
 
@@ -742,7 +770,7 @@ static int read_line(reader *r, const char *p, const char *end)
         return -2;
     if (nul) {
         r->errors++;
-        bc_diag_add(r->diag, BC_ERROR, r->file, r->line, (int32_t)(nul - p) + 1,
+        bc_diag_add(r->diag, BC_ERROR, r->file, r->line, column_of(r, nul),
                     "binary data (a NUL byte); a model is UTF-8 text");
         return -2; /* stop: the rest is not text */
     }
@@ -809,7 +837,7 @@ int64_t bc__bell_reader_lines(bc__bell_reader *r, const char *buf, size_t len, i
                 break; /* the rest comes with the next piece */
             eol = end;
         }
-        r->line++;
+        r->line += r->line < INT32_MAX; /* positions saturate past 2^31 - 1 lines */
         if (read_line(r, p, eol) == -2 || bc_diag_full(r->diag)) {
             r->stopped = 1;
             return -1;

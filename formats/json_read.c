@@ -304,7 +304,13 @@ static int read_scalars(json_ctx *c, const cJSON *const *slot)
     if (slot[K_NAME]) {
         old = path_key(c, "name");
         const char *s = get_string(c, slot[K_NAME], "the model's label");
-        if (!s || bc_builder_name(c->b, s, strlen(s), here(c)) < 0)
+        size_t len = s ? strlen(s) : 0, ok = s ? bc_utf8_valid_prefix(s, len) : 0;
+        if (ok < len) {
+            /* cJSON copies raw bytes; a label must be text to be written again. */
+            fail(c, "the model's label holds a byte that is not UTF-8 (0x%02X, its byte %zu)",
+                 (unsigned)(unsigned char)s[ok], ok + 1);
+            rc = -1;
+        } else if (!s || bc_builder_name(c->b, s, len, here(c)) < 0)
             rc = -1;
         path_cut(c, old);
     }
@@ -537,6 +543,18 @@ static int read_transition(json_ctx *c, const cJSON *t, succ_list *list)
     path_cut(c, old);
     if (!state || !action || !reward_ok || !next_ok)
         return -1;
+    if (!strcmp(state, "name")) {
+        /* `name TEXT` is the one directive of the text form that takes the
+         * rest of its line, `->` included, so a line of a state named `name`
+         * would read as it: the model could not be written as .bell and read
+         * back.  (Every other keyword starts a transition line when `->`
+         * follows, so such states are fine in both forms.) */
+        path_key(c, "state");
+        fail(c, "a state that has transitions cannot be named `name`: in the .bell text form a "
+             "line starting with `name` is the model's label; rename the state");
+        path_cut(c, old);
+        return -1;
+    }
     return feed_pair(c, state, action, reward, list);
 }
 
@@ -784,21 +802,6 @@ static cJSON *parse_document(json_ctx *c, const char *buf, size_t len)
 
 /* ---- entry -------------------------------------------------------------- */
 
-/* The default model name: the label's base name without its extension. */
-static char *default_name(const char *label)
-{
-    const char *base = strrchr(label, '/');
-    base = base ? base + 1 : label;
-    const char *dot = strrchr(base, '.');
-    size_t n = dot && dot != base ? (size_t)(dot - base) : strlen(base);
-    char *s = malloc(n + 1);
-    if (s) {
-        memcpy(s, base, n);
-        s[n] = 0;
-    }
-    return s;
-}
-
 /* Walks the document in the order the builder likes best (lists before pairs). */
 static int read_document(json_ctx *c, const cJSON *root)
 {
@@ -840,11 +843,8 @@ bc_model *bc_read_bell_json(const char *buf, size_t len, const char *file_label,
     if (!root)
         return NULL;
     c.b = bc_builder_new(c.label, d);
-    char *name = default_name(c.label);
-    if (!c.b || !name) {
+    if (!c.b) {
         bc_diag_add(d, BC_ERROR, c.label, 0, 0, "out of memory while reading the model");
-        bc_builder_free(c.b);
-        free(name);
         cJSON_Delete(root);
         return NULL;
     }
@@ -854,7 +854,6 @@ bc_model *bc_read_bell_json(const char *buf, size_t len, const char *file_label,
     if (rc < 0 || c.n_errors > 0)
         bc_builder_free(c.b); /* the builder's own errors are already in d */
     else
-        m = bc_builder_finish(c.b, name);
-    free(name);
+        m = bc_builder_finish(c.b, NULL); /* default label: the file's base name */
     return m;
 }

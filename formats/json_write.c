@@ -19,23 +19,6 @@
 #include <stdio.h>
 #include <string.h>
 
-/* Length of the valid UTF-8 sequence at s (1 to 4), or 0 if the bytes are not one. */
-static size_t utf8_length(const unsigned char *s)
-{
-    unsigned char c = s[0];
-    if (c < 0x80)
-        return 1;
-    size_t n = c >= 0xC2 && c <= 0xDF ? 2 : c >= 0xE0 && c <= 0xEF ? 3 : c >= 0xF0 && c <= 0xF4 ? 4 : 0;
-    for (size_t i = 1; i < n; i++)
-        if ((s[i] & 0xC0) != 0x80)
-            return 0; /* also stops at the NUL terminator */
-    /* Reject overlong forms, UTF-16 surrogates and code points past U+10FFFF. */
-    if ((c == 0xE0 && s[1] < 0xA0) || (c == 0xED && s[1] >= 0xA0) ||
-        (c == 0xF0 && s[1] < 0x90) || (c == 0xF4 && s[1] >= 0x90))
-        return 0;
-    return n;
-}
-
 /* Appends s as a JSON string: quotes, backslashes and control bytes escaped;
  * bytes that are not UTF-8 become U+FFFD so the output is always valid JSON. */
 static void emit_string(bc__outbuf *o, const char *s)
@@ -50,7 +33,7 @@ static void emit_string(bc__outbuf *o, const char *s)
         bc__outbuf_bytes(o, (const char *)run, (size_t)(p - run));
         if (!*p)
             break;
-        size_t n = utf8_length(p);
+        size_t n = bc_utf8_len((const char *)p, SIZE_MAX);
         if (*p == '"' || *p == '\\') {
             char esc[2] = {'\\', (char)*p};
             bc__outbuf_bytes(o, esc, 2);

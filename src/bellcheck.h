@@ -141,6 +141,17 @@ int bc_memory_refused(uint64_t limit, uint64_t bytes, const char *what, char *bu
 uint64_t bc_model_bytes_min(int64_t n_states, int64_t n_pairs, int64_t n_trans);
 
 /* ------------------------------------------------------------------------ */
+/* UTF-8                                                                    */
+/* ------------------------------------------------------------------------ */
+
+/* Length (1 to 4) of the well-formed UTF-8 character at text within avail
+ * bytes, or 0 (none there; a NUL never continues a character, so SIZE_MAX
+ * may be given for NUL-terminated text). */
+size_t bc_utf8_len(const char *text, size_t avail);
+/* Length of the longest prefix of text[0..len) that is well-formed UTF-8. */
+size_t bc_utf8_valid_prefix(const char *text, size_t len);
+
+/* ------------------------------------------------------------------------ */
 /* Name tables                                                              */
 /* ------------------------------------------------------------------------ */
 

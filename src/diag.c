@@ -101,17 +101,6 @@ int bc_diag_full(const bc_diag *d)
     return d->max_errors > 0 && d->n_errors >= d->max_errors;
 }
 
-/* Length of the valid UTF-8 sequence (2 to 4 bytes) at s, or 0. */
-static size_t utf8_sequence(const unsigned char *s)
-{
-    size_t n = s[0] >= 0xC2 && s[0] <= 0xDF ? 2 : s[0] >= 0xE0 && s[0] <= 0xEF ? 3
-             : s[0] >= 0xF0 && s[0] <= 0xF4 ? 4 : 0;
-    for (size_t i = 1; i < n; i++)
-        if ((s[i] & 0xC0) != 0x80)
-            return 0; /* also stops at the terminating NUL */
-    return n;
-}
-
 /* Messages quote the input they complain about, which may be binary: control
  * bytes and bytes that are not UTF-8 become '?', so that a message stays one
  * printable line (in place: each byte is kept or replaced by one byte). */
@@ -119,7 +108,7 @@ static void make_printable(char *msg)
 {
     unsigned char *p = (unsigned char *)msg;
     while (*p) {
-        size_t n = *p >= 0x80 ? utf8_sequence(p) : 1;
+        size_t n = bc_utf8_len((const char *)p, SIZE_MAX);
         if (n == 0 || *p < 0x20 || *p == 0x7F) {
             *p++ = '?';
             continue;

@@ -1,6 +1,7 @@
 /* json_out.c — a small streaming JSON writer for reports. */
 /* SPDX-License-Identifier: GPL-3.0-or-later */
 #include "json_out.h"
+#include "bellcheck.h"
 
 #include <assert.h>
 #include <math.h>
@@ -14,26 +15,13 @@ void bc_jw_init(bc_jw *w, FILE *f)
     w->empty[0] = 1;
 }
 
-/* Length of the valid UTF-8 sequence at p (1..4), or 0 if it is not one. */
-static int utf8_len(const unsigned char *p)
-{
-    int n = p[0] < 0x80 ? 1 : (p[0] & 0xE0) == 0xC0 ? 2 : (p[0] & 0xF0) == 0xE0 ? 3
-          : (p[0] & 0xF8) == 0xF0 ? 4 : 0;
-    if (n == 2 && p[0] < 0xC2)
-        return 0; /* overlong */
-    for (int i = 1; i < n; i++)
-        if ((p[i] & 0xC0) != 0x80)
-            return 0;
-    return n;
-}
-
 /* Writes s as a JSON string; bytes that are not UTF-8 become U+FFFD, so the
  * document stays valid whatever a model's label or a file name holds. */
 static void write_escaped(FILE *f, const char *s)
 {
     fputc('"', f);
     for (const unsigned char *p = (const unsigned char *)s; *p; p++) {
-        int n = utf8_len(p);
+        size_t n = bc_utf8_len((const char *)p, SIZE_MAX);
         if (n == 0) {
             fputs("\ufffd", f);
             continue;

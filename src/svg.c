@@ -119,27 +119,15 @@ double bc__luminance(const char *hex)
     return 0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2];
 }
 
-/* Length of the valid UTF-8 sequence at s (1 to 4) that is also an XML
- * character, or 0. */
-static int utf8_char(const unsigned char *s)
+/* Length of the well-formed UTF-8 character at s (1 to 4) that is also an
+ * XML character, or 0. */
+static size_t utf8_char(const unsigned char *s)
 {
     unsigned c = s[0];
     if (c < 0x80)
         return c >= 0x20 || c == '\t' || c == '\n' || c == '\r' ? 1 : 0;
-    int n = c >= 0xC2 && c <= 0xDF ? 2 : c >= 0xE0 && c <= 0xEF ? 3 : c >= 0xF0 && c <= 0xF4 ? 4 : 0;
-    if (!n)
-        return 0;
-    unsigned lo = 0x80, hi = 0xBF; /* allowed range of the second byte */
-    if (c == 0xE0) lo = 0xA0;
-    if (c == 0xED) hi = 0x9F; /* no surrogates */
-    if (c == 0xF0) lo = 0x90;
-    if (c == 0xF4) hi = 0x8F;
-    if (s[1] < lo || s[1] > hi)
-        return 0;
-    for (int k = 2; k < n; k++)
-        if ((s[k] & 0xC0) != 0x80)
-            return 0;
-    if (c == 0xEF && s[1] == 0xBF && (s[2] == 0xBE || s[2] == 0xBF))
+    size_t n = bc_utf8_len((const char *)s, SIZE_MAX);
+    if (n == 3 && c == 0xEF && s[1] == 0xBF && (s[2] == 0xBE || s[2] == 0xBF))
         return 0; /* U+FFFE and U+FFFF are not XML characters */
     return n;
 }

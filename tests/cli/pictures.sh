@@ -306,11 +306,20 @@ expect_status "--html -: usage error" 2
 bc solve "$rover" --cells 8x8 --compare --svg "$TMP/cmp" --quiet
 expect_status "--compare with --svg: usage error" 2
 
-# A model name with markup and bad bytes keeps the page well-formed.
-printf 'bell 1\nname a<b & "c" \377\ndiscount 1/2\nactions go\nx0 go 1 -> x1\nx1 go 2 -> x0\n' >"$TMP/odd.bell"
+# A model name with markup keeps the page well-formed.  (A label that is not
+# UTF-8 is refused by the readers; bad bytes can still come from a file
+# name, which becomes the label: U+FFFD, below.)
+printf 'bell 1\nname a<b & "c" \342\230\203 ]]>\ndiscount 1/2\nactions go\nx0 go 1 -> x1\nx1 go 2 -> x0\n' >"$TMP/odd.bell"
 bc solve "$TMP/odd.bell" --html "$TMP/odd.html" --svg "$TMP/odd" --quiet
 expect_status "odd name: solved" 0
 well_formed "odd name: page and pictures well-formed" "$TMP/odd.html" "$TMP/odd/policy.svg"
+oddfile="$TMP/odd2$(printf '\377').bell"
+printf 'bell 1\ndiscount 1/2\nactions go\nx0 go 1 -> x1\nx1 go 2 -> x0\n' >"$oddfile"
+bc solve "$oddfile" --html "$TMP/odd2.html" --quiet
+expect_status "a file name that is not UTF-8: solved" 0
+well_formed "a file name that is not UTF-8: page well-formed" "$TMP/odd2.html"
+if grep -q "odd2$(printf '\357\277\275')" "$TMP/odd2.html"; then pass "a file name that is not UTF-8: label with U+FFFD"
+else fail "a file name that is not UTF-8: label with U+FFFD" "no odd2 + U+FFFD in the page"; fi
 printf 'state,action\nx0,go\nx1,go\n' >"$TMP/odd-policy.csv"
 bc score "$TMP/odd.bell" --policy "$TMP/odd-policy.csv" --html "$TMP/odd-score.html" --quiet
 expect_status "odd name: scored with a page" 0

@@ -32,11 +32,17 @@ printf 'name dock -> depot  # the shuttle\ndiscount 1/2\na x 1 -> a\n' > "$TMP/n
 bc check "$TMP/name.bell" --json "$TMP/name.json"
 expect_eq "name keeps -> and drops the comment" "$(jget "$TMP/name.json" "d['model']['name']")" "dock -> depot"
 
-# Non-UTF-8 bytes in a label still give valid JSON.
+# A label that is not UTF-8 (here Latin-1) is refused at its byte.
 printf 'name caf\351\ndiscount 1/2\na x 1 -> a\n' > "$TMP/latin1.bell"
 bc check "$TMP/latin1.bell" --json "$TMP/latin1.json"
-if "$PY" -c "import json,sys; json.load(open(sys.argv[1], encoding='utf-8'))" "$TMP/latin1.json" 2>/dev/null; then
-  pass "non-UTF-8 label: JSON is valid UTF-8"; else fail "non-UTF-8 label: JSON is valid UTF-8" "json.load failed"; fi
+expect_status "Latin-1 label: refused" 2
+expect_in "Latin-1 label: at its byte" "$err" "latin1.bell:1:9: error: the label holds a byte that is not UTF-8 (0xE9)"
+# Bytes of a file name that are not UTF-8 become U+FFFD in the default label, so JSON stays valid.
+latin1file="$TMP/caf$(printf '\351').bell"
+printf 'discount 1/2\na x 1 -> a\n' > "$latin1file"
+bc check "$latin1file" --json "$TMP/latin1-name.json"
+expect_eq "Latin-1 file name: label with U+FFFD" \
+  "$("$PY" -c "import json,sys; print(json.load(open(sys.argv[1], encoding='utf-8'))['model']['name'] == 'caf\ufffd')" "$TMP/latin1-name.json" 2>&1)" "True"
 
 # A failed solve (iteration limit) writes no output file.
 bc solve "$ROOT/models/sutton-barto-3.5-gridworld.bell" --method vi --max-iter 1 --values-out "$TMP/v.csv" --policy-out "$TMP/p.csv"
