@@ -233,6 +233,10 @@ static int name_line(reader *r, const char *at)
         e--;
     if (e == r->p)
         return fail(r, at, "`name` needs a text");
+    size_t ok = bc_utf8_valid_prefix(r->p, (size_t)(e - r->p));
+    if (ok < (size_t)(e - r->p))
+        return fail(r, r->p + ok, "the label holds a byte that is not UTF-8 (0x%02X); a task is UTF-8 text",
+                    (unsigned)(unsigned char)r->p[ok]);
     free(r->t->name);
     r->t->name = strndup(r->p, (size_t)(e - r->p));
     r->p = r->end;

@@ -150,6 +150,9 @@ uint64_t bc_model_bytes_min(int64_t n_states, int64_t n_pairs, int64_t n_trans);
 size_t bc_utf8_len(const char *text, size_t avail);
 /* Length of the longest prefix of text[0..len) that is well-formed UTF-8. */
 size_t bc_utf8_valid_prefix(const char *text, size_t len);
+/* Copy of text[0..len), NUL-terminated, each byte that is not part of a
+ * well-formed character replaced by U+FFFD; NULL if out of memory. */
+char *bc_utf8_copy(const char *text, size_t len);
 
 /* ------------------------------------------------------------------------ */
 /* Name tables                                                              */

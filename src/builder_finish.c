@@ -470,25 +470,7 @@ static char *base_name(const char *path)
     const char *start = slash ? slash + 1 : path;
     const char *dot = strrchr(start, '.');
     size_t n = dot && dot > start ? (size_t)(dot - start) : strlen(start);
-    /* A label is UTF-8 text (the readers refuse other bytes in one), so bytes
-     * of a file name that are not become U+FFFD (3 bytes each at most). */
-    char *s = malloc(3 * n + 1), *o = s;
-    if (!s)
-        return NULL;
-    for (size_t i = 0; i < n;) {
-        size_t k = bc_utf8_len(start + i, n - i);
-        if (k == 0) {
-            memcpy(o, "\xEF\xBF\xBD", 3);
-            o += 3;
-            i++;
-        } else {
-            memcpy(o, start + i, k);
-            o += k;
-            i += k;
-        }
-    }
-    *o = 0;
-    return s;
+    return bc_utf8_copy(start, n); /* a label is UTF-8 text: other bytes of a file name become U+FFFD */
 }
 
 /* Builds the model once every check has passed; NULL if out of memory.

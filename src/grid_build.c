@@ -394,8 +394,15 @@ static int header(gb *s, const bc_grid_opts *o)
     const char *base = t->name ? t->name : t->label;
     if (!t->name && strrchr(base, '/'))
         base = strrchr(base, '/') + 1;
-    snprintf(label, sizeof label, "%.*s (grid %s, %s%s)", (int)(t->name ? strlen(base) :
-             strcspn(base, ".")), base, cells, bc_scheme_name(o->scheme), extra);
+    size_t n = t->name ? strlen(base) : strcspn(base, ".");
+    if (n > 300) /* room for the rest; cut between characters */
+        for (n = 300; n > 0 && ((unsigned char)base[n] & 0xC0) == 0x80; n--)
+            ;
+    snprintf(label, sizeof label, "%.*s (grid %s, %s%s)", (int)n, base, cells,
+             bc_scheme_name(o->scheme), extra);
+    char *text = bc_utf8_copy(label, strlen(label)); /* a file name may hold bytes that are not UTF-8 */
+    if (!text)
+        return oom(s);
     mpq_t q;
     mpq_init(q);
     bc_num_to_mpq(q, t->discount_exact, t->big);
@@ -403,9 +410,13 @@ static int header(gb *s, const bc_grid_opts *o)
     int ok = bc_num_from_mpq(&g, q, bc_builder_bigtab(s->b)) == 0;
     mpq_clear(q);
     bc_pos at = {0, 0, NULL};
-    if (!ok)
+    if (!ok) {
+        free(text);
         return oom(s);
-    if (bc_builder_name(s->b, label, strlen(label), at) < 0 || bc_builder_discount(s->b, g, at) < 0 ||
+    }
+    int named = bc_builder_name(s->b, text, strlen(text), at);
+    free(text);
+    if (named < 0 || bc_builder_discount(s->b, g, at) < 0 ||
         bc_builder_objective(s->b, t->objective, at) < 0)
         return -1;
     return 0;

@@ -2,6 +2,9 @@
 /* SPDX-License-Identifier: GPL-3.0-or-later */
 #include "bellcheck.h"
 
+#include <stdlib.h>
+#include <string.h>
+
 size_t bc_utf8_len(const char *text, size_t avail)
 {
     const unsigned char *s = (const unsigned char *)text;
@@ -35,4 +38,25 @@ size_t bc_utf8_valid_prefix(const char *text, size_t len)
         i += n;
     }
     return i;
+}
+
+char *bc_utf8_copy(const char *text, size_t len)
+{
+    char *out = malloc(3 * len + 1), *o = out; /* U+FFFD takes 3 bytes for 1 */
+    if (!out)
+        return NULL;
+    for (size_t i = 0; i < len;) {
+        size_t k = bc_utf8_len(text + i, len - i);
+        if (k == 0) {
+            memcpy(o, "\xEF\xBF\xBD", 3);
+            o += 3;
+            i++;
+        } else {
+            memcpy(o, text + i, k);
+            o += k;
+            i += k;
+        }
+    }
+    *o = 0;
+    return out;
 }

@@ -43,6 +43,12 @@ printf 'discount 1/2\na x 1 -> a\n' > "$latin1file"
 bc check "$latin1file" --json "$TMP/latin1-name.json"
 expect_eq "Latin-1 file name: label with U+FFFD" \
   "$("$PY" -c "import json,sys; print(json.load(open(sys.argv[1], encoding='utf-8'))['model']['name'] == 'caf\ufffd')" "$TMP/latin1-name.json" 2>&1)" "True"
+# The same for a grid model named after its task file (grid_build.c).
+latin1task="$TMP/rov$(printf '\351').task"
+printf 'discount 0.9\nstate x 0 10\naction u = {step: 1, stay: 0}\nnext x = x + u\nreward 1\ninitial x = 0\n' > "$latin1task"
+bc grid "$latin1task" --cells 4 --format json -o "$TMP/rov-grid.json"
+expect_eq "Latin-1 task file name: grid label with U+FFFD" \
+  "$("$PY" -c "import json,sys; print(json.load(open(sys.argv[1], encoding='utf-8'))['name'].startswith('rov\ufffd (grid 4'))" "$TMP/rov-grid.json" 2>&1)" "True"
 
 # A failed solve (iteration limit) writes no output file.
 bc solve "$ROOT/models/sutton-barto-3.5-gridworld.bell" --method vi --max-iter 1 --values-out "$TMP/v.csv" --policy-out "$TMP/p.csv"
