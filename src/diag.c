@@ -180,4 +180,7 @@ void bc_diag_print(const bc_diag *d, FILE *f)
     }
     if (d->n_dropped)
         fprintf(f, "(%d more error%s not shown)\n", d->n_dropped, d->n_dropped == 1 ? "" : "s");
+    else if (bc_diag_full(d)) /* the readers stop there, so nothing was counted past it */
+        fprintf(f, "(reading stops at %d errors; later problems, if any, are not listed)\n",
+                d->max_errors);
 }

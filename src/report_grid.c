@@ -40,9 +40,10 @@ int bc_report_grid_text(FILE *f, const bc_model *m, const bc_grid *g, bc_scheme 
         fprintf(f, " (%d points per cell)", (int)points_per_cell(g, scheme));
     fputc('\n', f);
     fprintf(f, "  model %s\n", m->name);
-    fprintf(f, "  %d states (%d terminal), %d actions, %lld state-action pairs, %lld transitions\n",
-            (int)m->n_states, (int)terminal_count(m), (int)m->n_actions, (long long)m->n_pairs,
-            (long long)m->n_trans);
+    fprintf(f, "  %d state%s (%d terminal), %d action%s, %lld state-action pair%s, %lld transition%s\n",
+            (int)m->n_states, m->n_states == 1 ? "" : "s", (int)terminal_count(m), (int)m->n_actions,
+            m->n_actions == 1 ? "" : "s", (long long)m->n_pairs, m->n_pairs == 1 ? "" : "s",
+            (long long)m->n_trans, m->n_trans == 1 ? "" : "s");
     if (output)
         fprintf(f, "  written to %s\n", strcmp(output, "-") ? output : "standard output");
     else

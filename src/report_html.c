@@ -79,9 +79,10 @@ void bc__html_begin(FILE *f, const char *command, const bc_model *m)
     for (int32_t s = 0; s < m->n_states; s++)
         terminal += m->terminal[s];
     char *g = bc_num_text(m->discount_exact, m->big);
-    fprintf(f, "<p class=\"sub\">%d states (%d terminal), %d actions, %lld state-action "
-               "pairs, %lld transitions; discount ", (int)m->n_states, (int)terminal,
-            (int)m->n_actions, (long long)m->n_pairs, (long long)m->n_trans);
+    fprintf(f, "<p class=\"sub\">%d state%s (%d terminal), %d action%s, %lld state-action "
+               "pair%s, %lld transition%s; discount ", (int)m->n_states, m->n_states == 1 ? "" : "s",
+            (int)terminal, (int)m->n_actions, m->n_actions == 1 ? "" : "s", (long long)m->n_pairs,
+            m->n_pairs == 1 ? "" : "s", (long long)m->n_trans, m->n_trans == 1 ? "" : "s");
     bc__xml_text(f, g ? g : "?");
     free(g);
     fprintf(f, ", objective %s", m->objective == BC_MAX ? "max (rewards)" : "min (costs)");

@@ -18,11 +18,12 @@ void bc__cells_text(int32_t n_dims, const int32_t *cells, char *buf, size_t cap)
 
 void bc__stats_text(FILE *f, const bc_sample_stats *s)
 {
-    fprintf(f, "%.7g", s->mean);
+    /* + 0.0 prints a zero as 0, never -0 (the sum of equal returns' differences). */
+    fprintf(f, "%.7g", s->mean + 0.0);
     if (s->n < 2)
         fputs(" (one episode: no interval)", f);
     else
-        fprintf(f, ", 95%% CI [%.7g, %.7g]", s->ci_low, s->ci_high);
+        fprintf(f, ", 95%% CI [%.7g, %.7g]", s->ci_low + 0.0, s->ci_high + 0.0);
 }
 
 void bc__stats_json(bc_jw *w, const char *mean_key, const bc_sample_stats *s)

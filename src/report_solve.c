@@ -66,8 +66,9 @@ int bc_report_solve_text(FILE *f, const bc_model *m, const bc_solution *sol,
                          const bc_proof_result *pr, int32_t show)
 {
     char *g = bc_num_text(m->discount_exact, m->big);
-    fprintf(f, "model %s: %d states, %d actions, discount %s, objective %s\n", m->name,
-            (int)m->n_states, (int)m->n_actions, g ? g : "?", m->objective == BC_MAX ? "max" : "min");
+    fprintf(f, "model %s: %d state%s, %d action%s, discount %s, objective %s\n", m->name,
+            (int)m->n_states, m->n_states == 1 ? "" : "s", (int)m->n_actions, m->n_actions == 1 ? "" : "s",
+            g ? g : "?", m->objective == BC_MAX ? "max" : "min");
     free(g);
     fprintf(f, "method %s (%s): %s, %lld %s, %.3f s\n", bc_method_name(sol->method),
             method_long(sol->method), status_word(sol->status), (long long)sol->iterations,

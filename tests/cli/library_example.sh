@@ -17,3 +17,15 @@ fi
 expect_in "library example solves a model" "$TMP/ex.out" "V*(initial) ="
 # Uniform initial distribution over s1, s2 (the format's default): (-60/7 - 20) / 2 = -100/7.
 expect_in "library example value is -100/7" "$TMP/ex.out" "V*(initial) = -14.2857142857"
+# The link line the document gives must name every library the Makefile links (LIBS).
+doc_line=$(tr '\n' ' ' < "$ROOT/docs/library.md" | grep -o '`-lbellcheck[^`]*`' | head -n 1)
+missing=""
+for lib in ${BC_LIBS:--lglpk -lumfpack -lamd -lcjson -lnettle -lflint -lgmp -lm -fopenmp}; do
+  case "$lib" in -l*|-fopenmp) case " $doc_line " in *" $lib "*|*" $lib\`"*) ;; *) missing="$missing $lib" ;; esac ;; esac
+done
+if [ -n "$doc_line" ] && [ -z "$missing" ]; then pass "library.md's link line names every library"
+else fail "library.md's link line names every library" "missing:$missing (doc: $doc_line)"; fi
+# Every public function of bellcheck.h is named in docs/library.md (so the document stays true).
+if res=$("$PY" "$ROOT/tests/tools/library_names.py" "$ROOT/src/bellcheck.h" "$ROOT/docs/library.md" 2>&1); then
+  pass "library.md names every public function"
+else fail "library.md names every public function" "missing: $res"; fi

@@ -70,3 +70,11 @@ if [ -w /dev/full ]; then
   "$BELLCHECK" check "$ROOT/models/puterman-two-state.bell" > /dev/full 2>"$TMP/full.err"; st=$?
   if [ "$st" -eq 3 ]; then pass "stdout write error: exit 3"; else fail "stdout write error: exit 3" "exit $st"; fi
 fi
+
+# Thirty bad lines: 20 errors listed (docs/limits.md, "errors per reading"), then a line saying
+# reading stopped there, since nothing past the 20th is counted.
+{ printf 'discount 0.9\nterminal t\n'; i=1; while [ $i -le 30 ]; do printf 's%d a 1 -> t 0.3\n' $i; i=$((i + 1)); done; } > "$TMP/thirty.bell"
+bc check "$TMP/thirty.bell"
+expect_status "thirty bad lines: exit 2" 2
+expect_eq "thirty bad lines: 20 errors listed" "$(grep -c ': error: ' "$err")" "20"
+expect_in "thirty bad lines: says reading stopped" "$err" "(reading stops at 20 errors; later problems, if any, are not listed)"
