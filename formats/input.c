@@ -136,13 +136,35 @@ typedef struct {
 /* A .bell text is read in pieces of this size: the text is never held whole. */
 #define CHUNK ((size_t)256 * 1024)
 
+/* 1 after reporting when a stop request (bc_stop_request: Ctrl-C in the
+ * command line) has come: a large model takes seconds to read (100 MB of
+ * text, 4 million states: 2 s), and a pipe may never end, so it is looked
+ * at before every read (once per chunk of a .bell text) and when a read
+ * was interrupted by a signal. */
+static int source_stopped(const source *s)
+{
+    if (!bc_stop_requested())
+        return 0;
+    if (s->hint)
+        bc_diag_add(s->d, BC_ERROR, s->label, 0, 0, "stopped on request while reading the model "
+                    "(%llu of %llu bytes read)", (unsigned long long)s->total,
+                    (unsigned long long)s->hint);
+    else
+        bc_diag_add(s->d, BC_ERROR, s->label, 0, 0, "stopped on request while reading the model "
+                    "(%llu bytes read)", (unsigned long long)s->total);
+    return 1;
+}
+
 /* Reads once more after the bytes held, doubling the buffer first when it
  * is full.  0 (s->eof set at the end of the input), or -1 after reporting
- * (a read error, out of memory, or more input than --max-memory allows:
- * a reading is charged the input's size and one byte, whether it holds the
- * input whole or not, so that a limit means the same for every form). */
+ * (a read error, out of memory, a stop request, or more input than
+ * --max-memory allows: a reading is charged the input's size and one byte,
+ * whether it holds the input whole or not, so that a limit means the same
+ * for every form). */
 static int source_read(source *s)
 {
+    if (source_stopped(s))
+        return -1;
     if (s->have == s->cap) {
         size_t cap = s->cap > SIZE_MAX / 2 - 1 ? 0 : 2 * s->cap;
         char *p = cap ? realloc(s->buf, cap + 1) : NULL;
@@ -155,7 +177,8 @@ static int source_read(source *s)
     }
     ssize_t got;
     while ((got = read(s->fd, s->buf + s->have, s->cap - s->have)) < 0 && errno == EINTR)
-        ;
+        if (source_stopped(s)) /* Ctrl-C while waiting for a pipe or a terminal */
+            return -1;
     if (got < 0) {
         bc_diag_add(s->d, BC_ERROR, s->label, 0, 0, "cannot read: %s", strerror(errno));
         return -1;

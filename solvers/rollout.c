@@ -12,6 +12,10 @@
  * Common random numbers: the agent and the policy it is compared with run
  * episode e from the same draws — the same start state and, at step j, the
  * same noise — so their difference measures the policies, not the luck.
+ *
+ * A stop request (bc_stop_request) is looked at before every episode: each
+ * thread then skips the rest of its block and every later block, so the
+ * simulation ends within one episode per thread, and reports nothing.
  */
 #include "rollout_internal.h"
 
@@ -145,6 +149,7 @@ typedef struct {
     block_sum *blocks;     /* [n_blocks] */
     atomic_llong next;     /* next block to take */
     atomic_llong first_fail; /* smallest failing episode seen so far; episodes when none */
+    atomic_llong done;     /* episodes run to their end */
 } job;
 
 static void run_block(job *j, int64_t b)
@@ -153,9 +158,11 @@ static void run_block(job *j, int64_t b)
     memset(bs, 0, sizeof *bs);
     bs->fail_episode = -1;
     int64_t end = (b + 1) * BLOCK < j->episodes ? (b + 1) * BLOCK : j->episodes;
-    for (int64_t e = b * BLOCK; e < end; e++) {
-        if (e > atomic_load(&j->first_fail))
-            return; /* an earlier episode failed: nothing after it is reported */
+    int64_t e;
+    for (e = b * BLOCK; e < end; e++) {
+        /* An earlier episode failed (nothing after it is reported), or a stop request. */
+        if (e > atomic_load(&j->first_fail) || bc_stop_requested())
+            break;
         uint64_t key = bc__episode_key(j->seed, e);
         bc__episode ep, ea;
         int bad = bc__run_episode(j->t, j->agent, key, j->limit, &ep, NULL, 0) < 0;
@@ -168,7 +175,7 @@ static void run_block(job *j, int64_t b)
             long long cur = atomic_load(&j->first_fail);
             while (e < cur && !atomic_compare_exchange_weak(&j->first_fail, &cur, e))
                 ;
-            return;
+            break;
         }
         bc__welford_add(&bs->ret, ep.ret);
         bs->successes += ep.stopped;
@@ -181,6 +188,7 @@ static void run_block(job *j, int64_t b)
             bs->against_steps += ea.steps;
         }
     }
+    atomic_fetch_add(&j->done, e - b * BLOCK);
 }
 
 static void *worker(void *arg)
@@ -300,9 +308,15 @@ int bc_rollout(const bc_task *t, const bc_grid_policy *agent, const bc_grid_poli
     }
     atomic_init(&j.next, 0);
     atomic_init(&j.first_fail, (long long)o->episodes);
+    atomic_init(&j.done, 0);
     run_all(&j, o->threads > 0 ? o->threads : 1);
+    r->simulated = atomic_load(&j.done);
     int rc = 0;
-    if (atomic_load(&j.first_fail) < o->episodes) {
+    if (r->simulated < o->episodes && bc_stop_requested()) {
+        snprintf(r->message, sizeof r->message, "stopped on request after %lld of %lld episodes",
+                 (long long)r->simulated, (long long)o->episodes);
+        rc = -3;
+    } else if (atomic_load(&j.first_fail) < o->episodes) {
         failure_message(&j, r);
         rc = -1;
     } else {

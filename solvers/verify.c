@@ -74,8 +74,17 @@ static int verify_exact(const bc_model *m, const bc_certificate *c, bc_verdict *
     mpq_inits(g, q, t, NULL);
     bc_num_to_mpq(g, m->discount_exact, m->big);
     out->holds = 1;
-    for (int32_t s = 0; s < m->n_states && out->holds; s++)
+    int stopped = 0;
+    for (int32_t s = 0; s < m->n_states && out->holds; s++) {
+        if (bc_stop_requested()) { /* a large model's exact pass takes seconds to minutes */
+            out->holds = 0;
+            snprintf(out->message, sizeof out->message, "stopped on request after %lld of %lld "
+                     "states", (long long)s, (long long)m->n_states);
+            stopped = 1;
+            break;
+        }
         state_holds(m, c, sgn, g, (const mpq_t *)v, s, q, t, out);
+    }
     int32_t first = -1;
     if (out->holds && m->discount >= 1.0) {
         int64_t nbad = bc_sv_policy_proper(m, c->policy, NULL, &first);
@@ -93,7 +102,7 @@ static int verify_exact(const bc_model *m, const bc_certificate *c, bc_verdict *
         mpq_clear(v[s]);
     free(v);
     mpq_clears(g, q, t, NULL);
-    return out->holds < 0 ? -1 : 0;
+    return stopped ? -2 : out->holds < 0 ? -1 : 0;
 }
 
 static int verify_interval(const bc_model *m, const bc_certificate *c, bc_verdict *out)

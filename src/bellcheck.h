@@ -341,7 +341,8 @@ int bc_read_file(const char *path, char **buf, size_t *len, bc_diag *d);
 bc_model *bc_read_bell_text(const char *buf, size_t len, const char *file_label, bc_diag *d);
 /* Reads the JSON form of a model from buf[0..len). NULL on error. */
 bc_model *bc_read_bell_json(const char *buf, size_t len, const char *file_label, bc_diag *d);
-/* Reads a model file ("-" = standard input), text or JSON by its first non-blank byte. NULL on error. */
+/* Reads a model file ("-" = standard input), text or JSON by its first non-blank byte. NULL on
+ * error, or after a stop request (bc_stop_request), looked at between reads of the input. */
 bc_model *bc_read_model(const char *path, bc_diag *d);
 /* Writes m in the .bell text format; returns 0 or -1 on a write error. */
 int bc_write_bell_text(const bc_model *m, FILE *f);
@@ -447,7 +448,8 @@ bc_solve_status bc_solve_backward(const bc_model *m, const bc_solve_opts *o, bc_
  * doubles nearest the exact optimum (bc_prove_solution keeps the rationals). */
 bc_solve_status bc_solve_exact(const bc_model *m, const bc_solve_opts *o, bc_solution *sol);
 /* Asks running solves to stop at their next sweep or step (async-signal-safe: only sets a
- * flag); they return BC_SOLVE_INTERRUPTED with their best proven bound. */
+ * flag); they return BC_SOLVE_INTERRUPTED with their best proven bound.  Grid models,
+ * bc_read_model and bc_rollout also stop (between cells, reads and episodes). */
 void bc_stop_request(void);
 int bc_stop_requested(void); /* 1 once bc_stop_request was called, until bc_stop_clear */
 void bc_stop_clear(void);    /* forgets an earlier request */
@@ -614,7 +616,9 @@ typedef struct {
 } bc_verdict;
 
 /* Re-checks c against m in one exact (or outward-rounded) pass of the
- * Bellman optimality conditions, without solving.  0, or -1 out of memory. */
+ * Bellman optimality conditions, without solving.  0; -1 out of memory; -2
+ * when a stop request (bc_stop_request) ended the exact pass between states
+ * (holds 0, message says where). */
 int bc_verify_certificate(const bc_model *m, const bc_certificate *c, bc_verdict *v);
 
 /* ------------------------------------------------------------------------ */
@@ -1112,13 +1116,16 @@ typedef struct {
     double against_success_rate, against_steps_mean;
     bc_sample_stats regret;    /* per episode: against's return minus the agent's, in the objective's direction */
     double seconds;
+    int64_t simulated;         /* episodes run to their end: all of them, unless stopped (-3) */
     char message[512];         /* on failure: the episode, step and formula */
 } bc_rollout_result;
 
 /* Simulates agent (and against, if not NULL, on the same start states and
  * noise) from the task's initial distribution.  Same options, same results,
  * whatever o->threads.  0; -1 when a step failed (message names the episode,
- * the step and the formula); -2 for bad options or out of memory (message). */
+ * the step and the formula); -2 for bad options or out of memory (message);
+ * -3 when a stop request (bc_stop_request, looked at before every episode)
+ * ended it early (simulated and message say after how many episodes). */
 int bc_rollout(const bc_task *t, const bc_grid_policy *agent, const bc_grid_policy *against,
                const bc_rollout_opts *o, bc_rollout_result *r);
 

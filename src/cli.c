@@ -83,7 +83,7 @@ int bc_cli_long(const char *cmd, const char *opt, const char *arg, long long lo,
 
 /* "BYTES" for --max-memory: a positive integer, optionally followed by K, M,
  * G or T (powers of 1024, also written KiB, MiB, ...).  0, or -1 after printing. */
-static int parse_bytes(const char *arg, unsigned long long *out)
+static int parse_bytes(const char *cmd, const char *arg, unsigned long long *out)
 {
     static const char units[] = "KMGT";
     char *end;
@@ -98,7 +98,7 @@ static int parse_bytes(const char *arg, unsigned long long *out)
         }
     }
     if (!v || errno || *end || v > (ULLONG_MAX >> shift)) {
-        bc_cli_usage_error("", "--max-memory expects a positive number of bytes, optionally "
+        bc_cli_usage_error(cmd, "--max-memory expects a positive number of bytes, optionally "
                            "with K, M, G or T (like 512M), got '%s'", arg);
         return -1;
     }
@@ -130,6 +130,9 @@ int bc_cli_prove_mode(const char *cmd, const char *arg, bc_prove_mode *out)
     return -1;
 }
 
+/* The command being run, for the messages of the options every command shares. */
+static const char *running_command = "";
+
 int bc_cli_common_option(bc_cli_common *c, int id, const char *arg)
 {
     long long v;
@@ -141,17 +144,17 @@ int bc_cli_common_option(bc_cli_common *c, int id, const char *arg)
         c->quiet = 1;
         return 1;
     case OPT_THREADS:
-        if (bc_cli_long("", "--threads", arg, 1, 1024, &v) < 0)
+        if (bc_cli_long(running_command, "--threads", arg, 1, 1024, &v) < 0)
             return -1;
         c->threads = (int)v;
         return 1;
     case OPT_SEED:
-        if (bc_cli_long("", "--seed", arg, 0, INT64_MAX, &v) < 0)
+        if (bc_cli_long(running_command, "--seed", arg, 0, INT64_MAX, &v) < 0)
             return -1;
         c->seed = v;
         return 1;
     case OPT_MAX_MEMORY:
-        if (parse_bytes(arg, &c->max_memory) < 0)
+        if (parse_bytes(running_command, arg, &c->max_memory) < 0)
             return -1;
         bc_memory_limit_set(c->max_memory); /* the solvers, which have no bc_diag, read it there */
         return 1;
@@ -284,6 +287,7 @@ int main(int argc, char **argv)
     }
     for (size_t i = 0; i < sizeof commands / sizeof commands[0]; i++)
         if (!strcmp(cmd, commands[i].name)) {
+            running_command = commands[i].name;
             int rc = commands[i].run(argc - 1, argv + 1);
             /* A report that did not reach standard output is a failed run. */
             if (fflush(stdout) != 0 || ferror(stdout)) {

@@ -4,6 +4,7 @@
 #include "cli.h"
 
 #include <getopt.h>
+#include <math.h>
 #include <string.h>
 
 static const char certify_help[] =
@@ -200,21 +201,34 @@ int bc_cli_verify(int argc, char **argv)
         return bc_cli_usage_error("verify", "expected MODEL and CERT (see --help)");
     if (!strcmp(argv[optind], "-") && !strcmp(argv[optind + 1], "-"))
         return bc_cli_usage_error("verify", "MODEL and CERT cannot both be standard input");
+    bc_cli_catch_interrupt(); /* a large model takes a while to read and to check */
     bc_model *m = bc_cli_load_model(argv[optind], &c);
-    if (!m)
-        return BC_EXIT_USAGE;
+    if (!m || bc_stop_requested()) { /* Ctrl-C: no report, no file */
+        bc_model_free(m);
+        return bc_stop_requested() ? bc_cli_interrupted("verify", "the construction of the model", NAN)
+                                   : BC_EXIT_USAGE;
+    }
     bc_diag d;
     bc_diag_init(&d);
     bc_certificate cert;
     int rc = bc_read_certificate(argv[optind + 1], m, &cert, &d);
     bc_diag_print(&d, stderr);
     bc_diag_free(&d);
-    if (rc < 0) {
+    if (rc < 0 || bc_stop_requested()) {
+        if (rc == 0)
+            bc_certificate_free(&cert);
         bc_model_free(m);
-        return BC_EXIT_USAGE;
+        return bc_stop_requested() ? bc_cli_interrupted("verify", "the reading of the certificate", NAN)
+                                   : BC_EXIT_USAGE;
     }
     bc_verdict v;
-    if (bc_verify_certificate(m, &cert, &v) < 0) {
+    int vr = bc_verify_certificate(m, &cert, &v);
+    if (bc_stop_requested()) { /* Ctrl-C: whatever the check found is not reported */
+        char what[320];
+        snprintf(what, sizeof what, "the check of the certificate%s%s%s", vr == -2 ? " (" : "",
+                 vr == -2 ? v.message : "", vr == -2 ? ")" : "");
+        rc = bc_cli_interrupted("verify", what, NAN);
+    } else if (vr < 0) {
         fprintf(stderr, "bellcheck verify: out of memory\n");
         rc = BC_EXIT_SOLVER;
     } else {

@@ -4,6 +4,7 @@
 #include "cli.h"
 
 #include <getopt.h>
+#include <math.h>
 #include <string.h>
 
 static const char help[] =
@@ -38,20 +39,33 @@ int bc_cli_check(int argc, char **argv)
     if (optind != argc - 1)
         return bc_cli_usage_error("check", "expected one MODEL argument (see --help)");
     const char *path = argv[optind];
+    bc_cli_catch_interrupt(); /* reading a large model takes a while */
     bc_task *task = NULL; /* a TASK's grid model also gets the grid's own findings */
     int is_task = bc_cli_is_task(path, &c);
     bc_model *m = is_task > 0 ? bc_cli_load_task(path, &c, &task) : is_task < 0 ? NULL
                                                                                : bc_cli_load_model(path, &c);
-    if (!m)
-        return BC_EXIT_USAGE;
+    if (!m || bc_stop_requested()) { /* Ctrl-C: no report, no file */
+        bc_model_free(m);
+        bc_task_free(task);
+        return bc_stop_requested() ? bc_cli_interrupted("check", "the construction of the model", NAN)
+                                   : BC_EXIT_USAGE;
+    }
     bc_findings fd;
     bc_grid_findings gfd, *gf = task ? &gfd : NULL;
     int failed = bc_analyse(m, &fd) < 0;
     if (!failed && gf && bc_grid_analyse(task, &c.grid, m, gf) < 0)
         failed = 1, bc_findings_free(&fd);
+    if (!failed && bc_stop_requested()) { /* Ctrl-C: no report, no file */
+        bc_findings_free(&fd);
+        if (gf)
+            bc_grid_findings_free(gf);
+        failed = 2;
+    }
     if (failed) {
         bc_model_free(m);
         bc_task_free(task);
+        if (failed == 2)
+            return bc_cli_interrupted("check", "the analysis of the model", NAN);
         fprintf(stderr, "bellcheck check: out of memory while analysing the model\n");
         return BC_EXIT_SOLVER;
     }

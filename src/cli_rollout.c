@@ -4,6 +4,7 @@
 #include "cli.h"
 
 #include <getopt.h>
+#include <math.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -113,8 +114,10 @@ static int load_agent(const rollout_args *a, const bc_task *t, const bc_model *m
     return rc;
 }
 
-/* The optimal controller of the --against grid.  0; -1 bad input (printed); -2 the solver failed. */
-static int load_against(const rollout_args *a, const bc_task *t, bc_grid_policy *gp)
+/* The optimal controller of the --against grid.  0; -1 bad input (printed); -2 the solver
+ * failed; -3 a stop request ended the grid's construction or its solve (*stopped says which). */
+static int load_against(const rollout_args *a, const bc_task *t, bc_grid_policy *gp,
+                        const char **stopped)
 {
     bc_grid_opts o = a->c.grid;
     o.n_dims = a->against.n_dims;
@@ -124,8 +127,9 @@ static int load_against(const rollout_args *a, const bc_task *t, bc_grid_policy 
     bc_model *m = bc_grid_model(t, &o, &d);
     bc_diag_print(&d, stderr);
     bc_diag_free(&d);
+    *stopped = "the construction of the --against grid's model";
     if (!m)
-        return -1;
+        return bc_stop_requested() ? -3 : -1;
     char label[512];
     snprintf(label, sizeof label, "%s (the --against grid)", strcmp(a->path, "-") ? a->path : "<stdin>");
     int rc = bc_cli_model_usable(m, label) > 0 ? 0 : -1;
@@ -135,9 +139,14 @@ static int load_against(const rollout_args *a, const bc_task *t, bc_grid_policy 
     bc_solve_opts_default(&so);
     so.threads = a->c.threads;
     if (rc == 0 && bc_solve(m, BC_METHOD_AUTO, &so, &sol) != BC_SOLVE_OK) {
-        fprintf(stderr, "bellcheck rollout: the --against grid: %s: %s\n",
-                bc_method_name(sol.method), sol.message);
-        rc = -2;
+        *stopped = "the solve of the --against grid's model";
+        if (bc_stop_requested())
+            rc = -3;
+        else {
+            fprintf(stderr, "bellcheck rollout: the --against grid: %s: %s\n",
+                    bc_method_name(sol.method), sol.message);
+            rc = -2;
+        }
     }
     if (rc == 0) {
         bc_diag_init(&d);
@@ -177,6 +186,16 @@ static int run(const rollout_args *a, const bc_task *t, const bc_grid_policy *ag
     o.threads = a->c.threads;
     bc_rollout_result r;
     int rc = bc_rollout(t, agent, against, &o, &r);
+    if (rc == -3 || bc_stop_requested()) { /* Ctrl-C: no report, no file */
+        char what[160];
+        if (rc == -3)
+            snprintf(what, sizeof what, "the simulation after %lld of %lld episodes",
+                     (long long)r.simulated, (long long)r.episodes);
+        else
+            snprintf(what, sizeof what, "the work after the simulation (all %lld episodes ran)",
+                     (long long)r.episodes);
+        return bc_cli_interrupted("rollout", what, NAN);
+    }
     if (rc < 0) {
         fprintf(stderr, "bellcheck rollout: %s\n", r.message);
         return rc == -1 ? BC_EXIT_USAGE : BC_EXIT_SOLVER;
@@ -203,17 +222,22 @@ int bc_cli_rollout(int argc, char **argv)
     if (bc_cli_grid_from_agent(&a.c, a.path, a.q_path) < 0)
         return BC_EXIT_USAGE;
     a.c.grid_given = 1;
+    bc_cli_catch_interrupt();
     bc_task *t = NULL;
     bc_model *m = bc_cli_load_task(a.path, &a.c, &t);
     if (!m)
-        return BC_EXIT_USAGE;
+        return bc_stop_requested() ? bc_cli_interrupted("rollout", "the construction of the model", NAN)
+                                   : BC_EXIT_USAGE;
     bc_grid_policy agent, against;
     memset(&against, 0, sizeof against);
     rc = BC_EXIT_USAGE;
     if (load_agent(&a, t, m, &agent) == 0) {
-        int ra = a.against.n_dims ? load_against(&a, t, &against) : 0;
+        const char *stopped = "";
+        int ra = a.against.n_dims ? load_against(&a, t, &against, &stopped) : 0;
         if (ra == 0)
             rc = run(&a, t, &agent, a.against.n_dims ? &against : NULL);
+        else if (ra == -3)
+            rc = bc_cli_interrupted("rollout", stopped, NAN);
         else
             rc = ra == -1 ? BC_EXIT_USAGE : BC_EXIT_SOLVER;
         bc_grid_policy_free(&agent);

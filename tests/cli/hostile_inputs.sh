@@ -191,6 +191,8 @@ expect_status "--max-memory above dense exact evaluation: exit 0" 0
 # job with SIGINT ignored); the signal is sent once the process has used 1 s of CPU time,
 # when it is surely solving (reading these models takes a few hundredths of a second).
 # Waiting for that point is not a timed assertion: what is checked holds whenever it comes.
+# A command still running two minutes after the signal has failed anyway (it ignored it, or
+# reads an endless input): it is killed and the status is 201, so the suite never hangs.
 interrupt() { # interrupt DIR ARGS...: runs bellcheck ARGS in DIR, Ctrl-C after 1 s of CPU
   dir=$1; shift
   (cd "$dir" && "$PY" -c '
@@ -202,9 +204,20 @@ def cpu_ticks():
     return int(fields[11]) + int(fields[12])
 while p.poll() is None and cpu_ticks() < os.sysconf("SC_CLK_TCK"):
     time.sleep(0.02)
+if p.poll() is not None:
+    sys.exit(200)  # 200: it ended before the signal
 p.send_signal(signal.SIGINT)
-sys.exit(p.wait() if p.returncode is None else 200)  # 200: it ended before the signal
+try:
+    status = p.wait(timeout=120)
+except subprocess.TimeoutExpired:
+    p.kill()
+    p.wait()
+    status = 201  # 201: still running two minutes after the signal
+sys.exit(status)
 ' "$BELLCHECK" "$@"); status=$?; out="$TMP/stdout"; err="$TMP/stderr"
+}
+expect_run_empty() { # NAME: the command left nothing in $TMP/run, not even a temporary file
+  if [ -z "$(ls -A "$TMP/run")" ]; then pass "$1"; else fail "$1" "$(ls -A "$TMP/run")"; fi
 }
 # A 100 x 100 grid world at discount 0.9999 (tests/bench/gridworld): value iteration needs far
 # more than a minute for a bound of 1e-12, so the signal always comes during the solve.
@@ -215,19 +228,16 @@ expect_status "Ctrl-C during value iteration: exit 130" 130
 expect_in "Ctrl-C during value iteration: says so" "$err" "bellcheck solve: interrupted (Ctrl-C) during vi after"
 expect_in "Ctrl-C during value iteration: the best proven bound" "$err" "the best bound proven so far is max |V - V*| <="
 expect_in "Ctrl-C during value iteration: no output" "$err" "no output file was written"
-if [ -z "$(ls -A "$TMP/run")" ]; then pass "Ctrl-C during value iteration: no file, not even a temporary one"
-else fail "Ctrl-C during value iteration: no file, not even a temporary one" "$(ls -A "$TMP/run")"; fi
+expect_run_empty "Ctrl-C during value iteration: no file, not even a temporary one"
 interrupt "$TMP/run" solve ../slow.bell --method pi --tol 1e-12 --json out.json
 expect_status "Ctrl-C during policy iteration: exit 130" 130
 expect_in "Ctrl-C during policy iteration: the best proven bound" "$err" "during pi after"
-if [ -z "$(ls -A "$TMP/run")" ]; then pass "Ctrl-C during policy iteration: no file"
-else fail "Ctrl-C during policy iteration: no file" "$(ls -A "$TMP/run")"; fi
+expect_run_empty "Ctrl-C during policy iteration: no file"
 # refine: a 512x512 grid of the crater rover takes seconds to build (2.4 million transitions).
 interrupt "$TMP/run" refine "$task" --cells 8x8,512x512 --json out.json
 expect_status "Ctrl-C during refine: exit 130" 130
 expect_in "Ctrl-C during refine: names the grid" "$err" "bellcheck refine: interrupted (Ctrl-C) during grid 2 of the study"
-if [ -z "$(ls -A "$TMP/run")" ]; then pass "Ctrl-C during refine: no file"
-else fail "Ctrl-C during refine: no file" "$(ls -A "$TMP/run")"; fi
+expect_run_empty "Ctrl-C during refine: no file"
 
 # ---- tasks and certificates: odd but valid, and empty -------------------------
 printf '\357\273\277task 1\r\ndiscount\t0.9\r\nstate x 0 1\r\naction\tu = {a: 1}\r\nnext x =\tx\r\nreward 1\r\ninitial x = 0' |
@@ -249,12 +259,50 @@ interrupt "$TMP/run" certify "$task" --cells 64x64 -o cert.json --json report.js
 expect_status "Ctrl-C during certify's proof: exit 130" 130
 expect_in "Ctrl-C during certify's proof: after the solve, with its bound" "$err" "bellcheck certify: interrupted (Ctrl-C) during the work after the solve"
 expect_in "Ctrl-C during certify's proof: no certificate" "$err" "no output file was written"
-if [ -z "$(ls -A "$TMP/run")" ]; then pass "Ctrl-C during certify: no file"
-else fail "Ctrl-C during certify: no file" "$(ls -A "$TMP/run")"; fi
+expect_run_empty "Ctrl-C during certify: no file"
 # grid: building the 512x512 model takes seconds; Ctrl-C stops it between cells.
 interrupt "$TMP/run" grid "$task" --cells 512x512 -o g.bell --json g.json
 expect_status "Ctrl-C during grid: exit 130" 130
 expect_in "Ctrl-C during grid: the builder stopped" "$err" "stopped on request while building the grid model"
 expect_in "Ctrl-C during grid: says so" "$err" "bellcheck grid: interrupted (Ctrl-C) during the construction of the model; no output file was written"
-if [ -z "$(ls -A "$TMP/run")" ]; then pass "Ctrl-C during grid: no file"
-else fail "Ctrl-C during grid: no file" "$(ls -A "$TMP/run")"; fi
+expect_run_empty "Ctrl-C during grid: no file"
+# rollout: 10^8 episodes of the hand walk (five steps each) take minutes on two threads; every
+# thread stops before its next episode.
+printf 'state,action\n' >"$TMP/walk.csv"
+for c in 0 1 2 3 4 5 6 7 8 9; do printf 'c%s,step\n' "$c" >>"$TMP/walk.csv"; done
+interrupt "$TMP/run" rollout "$ROOT/tests/tasks/hand-walk.task" --cells 10 --policy ../walk.csv \
+  --episodes 100000000 --threads 2 --json out.json
+expect_status "Ctrl-C during rollout: exit 130" 130
+expect_in "Ctrl-C during rollout: says so" "$err" "bellcheck rollout: interrupted (Ctrl-C) during the simulation after"
+expect_in "Ctrl-C during rollout: how many episodes ran" "$err" " of 100000000 episodes; no output file was written"
+expect_not_in "Ctrl-C during rollout: no report" "$out" "mean return"
+expect_run_empty "Ctrl-C during rollout: no file, not even a temporary one"
+# refine simulates each grid's policy the same way: 10^8 episodes of the reservoir.
+interrupt "$TMP/run" refine "$ROOT/models/reservoir-release.task" --cells 10x5,20x10 --episodes 100000000 --json out.json
+expect_status "Ctrl-C during refine's simulation: exit 130" 130
+expect_in "Ctrl-C during refine's simulation: names it" "$err" "bellcheck refine: interrupted (Ctrl-C) during grid 1 of the study (simulation: stopped on request after"
+expect_run_empty "Ctrl-C during refine's simulation: no file"
+# Reading: a .bell model that never ends, from a named pipe (tests/tools/endless_bell.py);
+# the reader looks at the request before every read, and only a stop request ends it.
+mkfifo "$TMP/endless.bell"
+for cmd in check solve; do
+  "$PY" "$ROOT/tests/tools/endless_bell.py" >"$TMP/endless.bell" & gen=$!
+  interrupt "$TMP/run" "$cmd" ../endless.bell --json out.json
+  kill "$gen" 2>/dev/null; wait "$gen" # it has ended already, unless $cmd never opened the pipe
+  expect_status "Ctrl-C while $cmd reads a model: exit 130" 130
+  expect_in "Ctrl-C while $cmd reads a model: the reader stopped" "$err" "../endless.bell: error: stopped on request while reading the model ("
+  expect_in "Ctrl-C while $cmd reads a model: says so" "$err" "bellcheck $cmd: interrupted (Ctrl-C) during the construction of the model"
+  expect_run_empty "Ctrl-C while $cmd reads a model: no file"
+done
+# verify: the exact check of tests/tools/wide_exact_model.py (1000 states and a terminal
+# one, 300 successors, rewards with 50-digit denominators) sums fractions of thousands of
+# digits for seconds, while reading the model and the certificate takes hundredths of a second.
+"$PY" "$ROOT/tests/tools/wide_exact_model.py" 1000 300 50 1 >"$TMP/wide.bell"
+"$BELLCHECK" certify "$TMP/wide.bell" --proof exact -o "$TMP/wide.cert" --quiet 2>"$TMP/stderr"
+expect_in "the wide model's certificate is exact" "$TMP/wide.cert" '"kind": "exact"'
+interrupt "$TMP/run" verify ../wide.bell ../wide.cert --json out.json
+expect_status "Ctrl-C during verify: exit 130" 130
+expect_in "Ctrl-C during verify: during the exact check" "$err" "bellcheck verify: interrupted (Ctrl-C) during the check of the certificate (stopped on request after "
+expect_in "Ctrl-C during verify: part-way through the states" "$err" " of 1001 states); no output file was written"
+expect_not_in "Ctrl-C during verify: no verdict" "$out" "HOLDS"
+expect_run_empty "Ctrl-C during verify: no file"

@@ -1,4 +1,5 @@
 # usage.sh — --help, --version and bad usage: exit statuses and where the usage text goes.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # Contract: ../shared/design/OVERVIEW.md ("--help on every command"; exit 2 = bad usage;
 # messages on standard error, reports on standard output).
 . "$(dirname "$0")/../lib.sh"
@@ -56,3 +57,10 @@ usage_error "solve --show negative" "-3" solve "$M" --show -3
 bc check "$TMP/no-such-model.bell"
 expect_status "missing model file exit 2" 2
 expect_in "missing model file named" "$err" "no-such-model.bell"
+
+# A bad value of an option every command shares is reported under the command's name.
+bc solve "$ROOT/models/puterman-two-state.bell" --threads 0
+expect_status "--threads 0: exit 2" 2
+expect_in "--threads 0: names the command" "$err" "bellcheck solve: --threads expects an integer in [1, 1024], got '0'"
+bc check "$ROOT/models/puterman-two-state.bell" --max-memory 12X
+expect_in "--max-memory 12X: names the command" "$err" "bellcheck check: --max-memory expects"
