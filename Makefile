@@ -1,4 +1,5 @@
 # Makefile — builds libbellcheck.a and the bellcheck command, runs the demo and the tests.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # GNU Make; see DEVELOPERS.md.
 
 CC      ?= cc

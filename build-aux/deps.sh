@@ -1,5 +1,6 @@
 #!/bin/sh
 # deps.sh — makes sure the Debian packages bellcheck builds and tests with are installed.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # Usage: deps.sh build|test|fuzz|valgrind|browser.  As root on a Debian-like system, installs what is
 # missing with apt-get; otherwise prints the exact command to run and fails.
 set -u

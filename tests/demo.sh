@@ -1,5 +1,6 @@
 #!/bin/sh
 # demo.sh — the demo: check, solve and cross-check an invented model, grade an invented learned agent, then the rover pipeline (train, grade, simulate, refine).
+# SPDX-License-Identifier: GPL-3.0-or-later
 set -e
 cd "$(dirname "$0")/.."
 B=${BUILD:-build}

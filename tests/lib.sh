@@ -1,4 +1,5 @@
 # lib.sh — helpers for command-line tests: run bellcheck, check status and output.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # Each check prints one line "PASS name" or "FAIL name: why".
 : "${BELLCHECK:?BELLCHECK must name the binary}"
 ROOT=$(cd "$(dirname "$0")/../.." && pwd)

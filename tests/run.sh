@@ -1,5 +1,6 @@
 #!/bin/sh
 # run.sh — runs every test (unit binaries, command-line scripts, reference checks)
+# SPDX-License-Identifier: GPL-3.0-or-later
 # and ends with "N passed, N failed".  Each test prints lines "PASS name" or
 # "FAIL name ..."; a test program that exits non-zero without printing a FAIL
 # line counts as one failure, so a crash is never silent.

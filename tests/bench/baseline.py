@@ -1,4 +1,5 @@
 # baseline.py — the practitioner's alternative the benchmark compares against: value iteration with scipy's sparse matrix-vector product.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Usage: /usr/bin/python3 baseline.py PREFIX [--tol 1e-6] [--max-seconds S]
 
 Reads the raw arrays tests/bench/probe wrote (PREFIX.meta, .spstart, .tstart,

@@ -1,4 +1,5 @@
 # proofs.py — benchmark of the proofs: exact solve time against model size, interval verification against the floating solve.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Usage: BUILD=build /usr/bin/python3 tests/bench/proofs.py
 
 Prints two tables and writes them to $BUILD/bench-proofs.md:

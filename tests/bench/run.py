@@ -1,4 +1,5 @@
 # run.py — `make bench`: generates the benchmark models, measures bellcheck and the numpy/scipy baseline on them, prints the table and writes $BUILD/bench.md.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Environment:
   BUILD=build          where the binaries are and the results go
   BENCH_QUICK=1        small models only (a smoke test of the benchmark, under a minute)

@@ -1,4 +1,5 @@
 # png_check.py — checks a screenshot with Python's standard library alone: PNG size, not blank, the map colours present.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Usage: /usr/bin/python3 png_check.py NAME FILE WIDTH HEIGHT [#rrggbb:MIN ...]
 
 Reads the PNG (8-bit RGB or RGBA, not interlaced; PNG specification, W3C

@@ -1,5 +1,6 @@
 #!/bin/sh
 # run.sh — `make test-browser`: renders the HTML reports with Debian's headless chromium and checks the screenshots; ends with "N passed, N failed".
+# SPDX-License-Identifier: GPL-3.0-or-later
 cd "$(dirname "$0")/../.." || exit 2
 : "${BELLCHECK:=build/bellcheck}"
 export BELLCHECK

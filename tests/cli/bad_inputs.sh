@@ -1,4 +1,5 @@
 # bad_inputs.sh — runs bellcheck on every file of tests/bad/ (`check FILE` unless EXPECT says otherwise) and compares with tests/bad/EXPECT.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # One PASS/FAIL line per file (exit status and message checked together), plus
 # one check that EXPECT and the directory list the same files.  The expected
 # positions and words come from the format spec (../shared/design/model-format.md,

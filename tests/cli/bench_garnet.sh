@@ -1,4 +1,5 @@
 # bench_garnet.sh — smoke test of the benchmark's Garnet generator (tests/bench/garnet.c): same model as tests/tools/garnet.py, and bellcheck reads it.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 PY=${PY:-/usr/bin/python3}
 GARNET="${BUILD:-$(dirname "$BELLCHECK")}/bench/garnet" # BUILD: exported by tests/run.sh (BELLCHECK may be a wrapper)

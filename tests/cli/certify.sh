@@ -1,4 +1,5 @@
 # certify.sh — certify writes certificates that verify re-checks; changed, foreign and malformed certificates are refused.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 PY=${PY:-/usr/bin/python3}
 M="$ROOT/models"

@@ -1,4 +1,5 @@
 # check_findings.sh — the structural findings of `check` on small hand-made models, read from its JSON.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 PY=/usr/bin/python3
 # jget FILE EXPR: evaluates a Python expression on the parsed JSON `d`.

@@ -1,4 +1,5 @@
 # grid.sh — `bellcheck grid` and TASK inputs of check, solve and score: exact scheme probabilities recomputed in Python, stuck cells, read-back, the grid of an NPY Q-table, errors.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # The task is the invented crater rover (models/crater-rover.task).  The independent
 # reference is tests/tools/grid_ref.py (plain Python with fractions), which recomputes
 # every state-action pair of each scheme from the task's formulas.

@@ -1,4 +1,5 @@
 # input_forms.sh — the same model from standard input, with CRLF, a UTF-8 BOM, tabs, no final newline, or as JSON: same answer.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # Contract: OVERVIEW.md (MODEL "-" = standard input) and model-format.md (UTF-8 text,
 # tokens separated by spaces or tabs; errors name line and column).  Reference answer:
 # Puterman, Markov Decision Processes (1994), Section 3.1 two-state example,

@@ -1,4 +1,5 @@
 # json_out.sh — `--json -` puts one JSON document alone on standard output; the fields of the solve report.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # Contract: ../shared/design/OVERVIEW.md (--json FILE, "-" for standard output) and
 # docs/json-reports.md; expected values are Puterman's two-state example
 # (Markov Decision Processes, 1994, Section 3.1; values from memory):

@@ -1,4 +1,5 @@
 # library_example.sh — compiles the example program of docs/library.md against the built library and runs it.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # The library is $BUILD/libbellcheck.a (tests/run.sh exports BUILD), linked
 # with $BC_LIBS (the Makefile exports its LIBS); a library built with
 # sanitizers needs the same flags at link time: BC_SANITIZE_FLAGS.

@@ -1,4 +1,5 @@
 # methods.sh — solve --method vi|pi|lp on a published example, a cost model (objective min) and a finite horizon worked by hand.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 PY=${PY:-/usr/bin/python3}
 M="$ROOT/models/puterman-two-state.bell"

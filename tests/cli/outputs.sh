@@ -1,4 +1,5 @@
 # outputs.sh — CSV outputs of solve, and output files that must not appear when a run fails.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # Contract: bellcheck.h (bc_write_values_csv: `state,value`, one row per state;
 # bc_write_policy_csv: `state,action`, terminal states omitted) and model-format.md
 # ("No partial output file is left behind by a failed run").

@@ -1,4 +1,5 @@
 # pictures.sh — --svg, --html and --slice of solve and score: well-formed files, maps that agree with independent references, all-or-nothing output, usage errors.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 PY=${PY:-/usr/bin/python3}
 TOOLS="$ROOT/tests/tools"

@@ -1,4 +1,5 @@
 # review_fixes.sh — one check per defect found in review of the core; each would have caught its bug.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 PY=/usr/bin/python3
 jget() { "$PY" -c "import json,sys; d=json.load(open(sys.argv[1])); print($2)" "$1"; }

@@ -1,4 +1,5 @@
 # rollout.sh — `bellcheck rollout` and `bellcheck refine`: returns computed by hand, the 95% interval against scipy and its coverage, an independent replay of the random streams, reproducibility whatever the threads, success rate, --against, bad usage.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 PY=/usr/bin/python3
 TASKS="$ROOT/tests/tasks"

@@ -1,4 +1,5 @@
 # score.sh — `bellcheck score` from the command line: readers, JSON fields, gates and exit statuses.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 PY=/usr/bin/python3
 jget() { "$PY" -c "import json,sys; d=json.load(open(sys.argv[1])); print($2)" "$1"; }

@@ -1,4 +1,5 @@
 # double-integrator.sh — `refine` with the interp scheme approaches the closed-form minimum time of the double integrator as the cells and the time step shrink.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # Reference: minimum-time control of x'' = u, |u| <= 1, bang-bang with the switching
 # curve x = -v|v|/2 (Kirk, Optimal Control Theory: An Introduction, 1970, section 5.4,
 # from memory); from (x, v) the minimum time to the origin is

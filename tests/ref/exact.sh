@@ -1,4 +1,5 @@
 # exact.sh — exact optima (solve --method exact) against published values and exact references; interval enclosures contain them.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 . "$ROOT/tests/tools/ref_common.sh"
 CHECK="$TOOLS/check_exact.py"

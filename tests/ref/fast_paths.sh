@@ -1,4 +1,5 @@
 # fast_paths.sh — the solvers' paths for large models (Jacobi value iteration with MacQueen-Porteus bounds, hand-over to warm-started policy iteration, threads) against the independent reference solver.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 . "$ROOT/tests/tools/ref_common.sh"
 GRID="${BUILD:-$(dirname "$BELLCHECK")}/bench/gridworld" # BUILD: exported by tests/run.sh (BELLCHECK may be a wrapper)

@@ -1,4 +1,5 @@
 # gambler.sh — Sutton & Barto's gambler's problem (Example 4.3, p = 0.4): V* is the win probability of bold play.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 . "$ROOT/tests/tools/ref_common.sh"
 model="$MODELS/sutton-barto-4.3-gambler.bell"

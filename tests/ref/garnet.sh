@@ -1,4 +1,5 @@
 # garnet.sh — random Garnet MDPs (10 to 2000 states): every method of bellcheck against the independent reference solver.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 . "$ROOT/tests/tools/ref_common.sh"
 

@@ -1,4 +1,5 @@
 # generated.sh — the generated textbook models in models/ are exactly what their generator scripts write.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 . "$ROOT/tests/tools/ref_common.sh"
 

@@ -1,4 +1,5 @@
 # gridworld-3.5.sh — Sutton & Barto's 5x5 gridworld (Example 3.5): optimal values from the book and from the reference solver.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 . "$ROOT/tests/tools/ref_common.sh"
 model="$MODELS/sutton-barto-3.5-gridworld.bell"

@@ -1,4 +1,5 @@
 # gridworld-4.1.sh — Sutton & Barto's 4x4 gridworld (Example 4.1): V* is minus the distance to the nearest terminal corner.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 . "$ROOT/tests/tools/ref_common.sh"
 model="$MODELS/sutton-barto-4.1-gridworld.bell"

@@ -1,4 +1,5 @@
 # models.sh — every bundled model: --compare agrees, and each method matches the independent reference solver.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 . "$ROOT/tests/tools/ref_common.sh"
 

@@ -1,4 +1,5 @@
 # puterman.sh — Puterman's two-state example, discount 0.95: v*(s1) = -60/7, v*(s2) = -20.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 . "$ROOT/tests/tools/ref_common.sh"
 model="$MODELS/puterman-two-state.bell"

@@ -1,4 +1,5 @@
 # score_proofs.sh — the proofs behind score's figures: exact regrets against an exact reference, interval bounds that contain them.
+# SPDX-License-Identifier: GPL-3.0-or-later
 . "$(dirname "$0")/../lib.sh"
 . "$ROOT/tests/tools/ref_common.sh"
 jget() { "$PY" -c "import json,sys; d=json.load(open(sys.argv[1])); print($2)" "$1"; }

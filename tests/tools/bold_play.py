@@ -1,4 +1,5 @@
 # bold_play.py — exact win probability of bold play in the gambler's problem, as expected values for the gambler model.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Usage: /usr/bin/python3 bold_play.py [--goal N] [--p-heads P] [--fractions]
 
 Prints JSON {state: value} in the naming of tests/tools/gen_gambler.py:

@@ -1,4 +1,5 @@
 # check_exact.py — checks bellcheck's exact values and interval enclosures against references in Python fractions.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Usage:
   /usr/bin/python3 check_exact.py fractions NAME REPORT.json EXPECTED.json
       REPORT is `bellcheck solve --method exact --json` output; EXPECTED maps

@@ -1,4 +1,5 @@
 # compare_values.py — compares a `bellcheck solve --json` report with expected values; one PASS/FAIL line per check.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Usage: /usr/bin/python3 compare_values.py NAME REPORT EXPECTED TOL
                                           [--model MODEL] [--method M] [--plain]
 

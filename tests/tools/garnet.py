@@ -1,4 +1,5 @@
 # garnet.py — seeded generator of random Garnet MDPs written as exact .bell text.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Usage: /usr/bin/python3 garnet.py --states N --actions M --branch B
                                   [--discount G] [--seed S] [--objective max|min]
                                   [--denominator D] [-o FILE]

@@ -1,4 +1,5 @@
 #!/usr/bin/python3
+# SPDX-License-Identifier: GPL-3.0-or-later
 """gen_demo_drone.py — writes the invented demo for `score`: a delivery drone
 crossing a gusty yard to its charging pad (models/demo-yard-drone.bell), and a
 Q-table of the kind a tabular learner leaves behind (models/demo-yard-drone-q.csv).

@@ -1,4 +1,5 @@
 # gen_gambler.py — writes the gambler's problem of Sutton & Barto (Example 4.3) as a .bell file.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Usage: /usr/bin/python3 gen_gambler.py [OUT_FILE] [--goal N] [--p-heads P]
 
 Default OUT_FILE: models/sutton-barto-4.3-gambler.bell of the repository,

@@ -1,4 +1,5 @@
 # gen_gridworlds.py — writes the two Sutton & Barto gridworld models (Examples 3.5 and 4.1) as .bell files.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Usage: /usr/bin/python3 gen_gridworlds.py [OUT_DIR]   (default: models/ of the repository)
 
 Writes OUT_DIR/sutton-barto-3.5-gridworld.bell and

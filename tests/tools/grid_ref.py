@@ -1,5 +1,6 @@
 #!/usr/bin/python3
 # grid_ref.py — independent check of `bellcheck grid` on the crater rover (models/crater-rover.task,
+# SPDX-License-Identifier: GPL-3.0-or-later
 # an invented task): recomputes, in plain Python, what each scheme must produce for every
 # state-action pair and compares with the written .bell model.
 #   sample: K = m*m points per cell at the midpoints of an m x m sub-grid; the probability of a

@@ -1,4 +1,5 @@
 #!/usr/bin/python3
+# SPDX-License-Identifier: GPL-3.0-or-later
 """library_names.py — the public functions of src/bellcheck.h that docs/library.md does not name.
 
 Usage: library_names.py HEADER DOC.  Prints the missing names, one line, and

@@ -1,4 +1,5 @@
 # make_agents.py — writes the .npy Q-tables and policies that tests/unit/test_agent_read.c reads, with NumPy itself.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Usage: /usr/bin/python3 make_agents.py DIR
 
 Writes into DIR (which must exist) every NPY file the agent-reader unit test

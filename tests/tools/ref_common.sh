@@ -1,4 +1,5 @@
 # ref_common.sh — shared setup of the reference tests (tests/ref/*.sh); sourced after tests/lib.sh.
+# SPDX-License-Identifier: GPL-3.0-or-later
 # Sets PY (the Debian python with numpy/scipy), TOOLS, MODELS, and defines
 # solve_check, which runs one solve and compares it with expected values.
 PY=${PY:-/usr/bin/python3}

@@ -1,4 +1,5 @@
 # ref_solve.py — independent reference solver for .bell models: own exact parser, policy iteration, JSON values.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Reference optimum of a .bell model, written independently of the C reader.
 
 Usage: /usr/bin/python3 ref_solve.py MODEL [--exact] [--fractions] [--policy]

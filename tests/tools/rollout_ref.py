@@ -1,5 +1,6 @@
 #!/usr/bin/python3
 # rollout_ref.py — independent replay of `bellcheck rollout` on tests/tasks/noisy-walk.task: the
+# SPDX-License-Identifier: GPL-3.0-or-later
 # random streams as docs/methods.md ("Simulation") describes them, the walk's formulas written
 # out in Python with the same floating-point operations, the policy read from a CSV file.
 #   splitmix64 (Steele, Lea and Flood, "Fast splittable pseudorandom number generators", 2014):

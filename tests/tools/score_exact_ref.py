@@ -1,4 +1,5 @@
 # score_exact_ref.py — exact regret of a deterministic policy on a .bell model, in Python fractions, for checking score's exact proofs.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Usage: /usr/bin/python3 score_exact_ref.py MODEL POLICY.csv
 
 POLICY.csv: a header `state,action`, then one line per non-terminal state.

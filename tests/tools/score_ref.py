@@ -1,4 +1,5 @@
 # score_ref.py — independent reference for scoring an agent on a .bell model: regret, residual, agreement (numpy, dense).
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Reference score of a Q-table or policy on a .bell model, written apart from bellcheck.
 
 Usage: /usr/bin/python3 score_ref.py MODEL (--q CSV | --policy CSV | --qstar)

@@ -1,4 +1,5 @@
 # svg_cells.py — reads the cells, marks and outlines of a bellcheck map (SVG) with Python's standard library, for the picture tests.
+# SPDX-License-Identifier: GPL-3.0-or-later
 """Reads a map written by bellcheck (policy.svg, value.svg, agent.svg).
 
 Usage as a module: cells(path) -> (nx, ny, {(i, j): fill}), with j counted

@@ -1,5 +1,6 @@
 #!/usr/bin/python3
 # underpowered_car.py — independent reference for the formula engine: trajectories of the
+# SPDX-License-Identifier: GPL-3.0-or-later
 # under-powered car (Moore 1990) with the dynamics as given by Sutton & Barto, Reinforcement
 # Learning: An Introduction (2nd ed., 2018), Section 10.1 (from memory):
 #   v' = bound(v + 0.001 a - 0.0025 cos(3 x)),  x' = bound(x + v'),

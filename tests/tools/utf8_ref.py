@@ -1,4 +1,5 @@
 #!/usr/bin/python3
+# SPDX-License-Identifier: GPL-3.0-or-later
 """utf8_ref.py — the length of the first UTF-8 character of each 4-byte record, by Python's strict codec.
 
 Reads 4-byte records on standard input and writes one byte per record: the

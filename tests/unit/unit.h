@@ -1,4 +1,5 @@
 /* unit.h — the tiny check macros every unit test uses; one PASS/FAIL line per check. */
+/* SPDX-License-Identifier: GPL-3.0-or-later */
 #ifndef BC_UNIT_H
 #define BC_UNIT_H
 #include <math.h>
