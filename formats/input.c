@@ -21,8 +21,10 @@ static int at_end(int fd)
 }
 
 /* Reads everything from fd into a growing buffer (one byte more for a final
- * NUL).  Returns 0, -1 (errno set), or -2 when the buffer would need more
- * than max bytes (0 = no limit). */
+ * NUL).  Returns 0, -1 (errno set), -2 when the buffer would need more than
+ * max bytes (0 = no limit), or -4 on a stop request (bc_stop_request), looked
+ * at before every read and when a signal interrupts one, so that Ctrl-C ends
+ * a wait on a pipe or a terminal that sends nothing. */
 static int read_all(int fd, size_t hint, uint64_t max, char **buf, size_t *len)
 {
     /* A regular file fits with a byte to spare, so its end is seen without growing. */
@@ -33,6 +35,10 @@ static int read_all(int fd, size_t hint, uint64_t max, char **buf, size_t *len)
     if (!p)
         return -1;
     for (;;) {
+        if (bc_stop_requested()) {
+            free(p);
+            return -4;
+        }
         if (n == cap) {
             /* Double, but never past max; when no growth is allowed the input must end here. */
             size_t grown = cap > SIZE_MAX / 2 - 1 ? cap : 2 * cap;
@@ -58,7 +64,7 @@ static int read_all(int fd, size_t hint, uint64_t max, char **buf, size_t *len)
         ssize_t got = read(fd, p + n, cap - n);
         if (got < 0) {
             if (errno == EINTR)
-                continue;
+                continue; /* the stop request, if that was it, is seen above */
             free(p);
             return -1;
         }
@@ -117,6 +123,8 @@ int bc_read_file(const char *path, char **buf, size_t *len, bc_diag *d)
                     "(--max-memory %llu bytes)", (unsigned long long)d->max_memory);
     else if (rc == -1)
         bc_diag_add(d, BC_ERROR, label, 0, 0, "cannot read: %s", strerror(err));
+    else if (rc == -4)
+        bc_diag_add(d, BC_ERROR, label, 0, 0, "stopped on request while reading");
     return rc < 0 ? -1 : 0;
 }
 

@@ -335,7 +335,8 @@ bc_model *bc_builder_finish(bc_builder *b, const char *default_name);
 /* ------------------------------------------------------------------------ */
 
 /* Reads a whole file ("-" = standard input) into a NUL-terminated buffer.
- * Returns 0, or -1 after reporting the problem in d. */
+ * Returns 0, or -1 after reporting the problem in d (a stop request,
+ * bc_stop_request, ends the reading too, even a wait on a silent pipe). */
 int bc_read_file(const char *path, char **buf, size_t *len, bc_diag *d);
 /* Reads a .bell text model from buf[0..len); file_label names it in messages. NULL on error. */
 bc_model *bc_read_bell_text(const char *buf, size_t len, const char *file_label, bc_diag *d);

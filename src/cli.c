@@ -289,6 +289,11 @@ int main(int argc, char **argv)
         if (!strcmp(cmd, commands[i].name)) {
             running_command = commands[i].name;
             int rc = commands[i].run(argc - 1, argv + 1);
+            /* A failure that a Ctrl-C caused (a reading cut short, say) is an
+             * interruption; outputs are all or nothing, so none was written. */
+            if (bc_stop_requested() && rc != BC_EXIT_OK && rc != BC_EXIT_GATE &&
+                rc != BC_EXIT_INTERRUPTED)
+                rc = bc_cli_interrupted(cmd, "the run", NAN);
             /* A report that did not reach standard output is a failed run. */
             if (fflush(stdout) != 0 || ferror(stdout)) {
                 fprintf(stderr, "bellcheck %s: cannot write to standard output: %s\n", cmd,

@@ -295,6 +295,47 @@ for cmd in check solve; do
   expect_in "Ctrl-C while $cmd reads a model: says so" "$err" "bellcheck $cmd: interrupted (Ctrl-C) during the construction of the model"
   expect_run_empty "Ctrl-C while $cmd reads a model: no file"
 done
+# A wait on standard input that sends nothing (an agent, a certificate or a task given as `-`
+# from a terminal or a silent pipe) ends on Ctrl-C too.  The signal is sent once the process
+# is blocked reading the pipe (/proc/PID/wchan names the kernel's pipe read; Linux).
+interrupt_idle() { # interrupt_idle DIR ARGS...: bellcheck ARGS in DIR, stdin a silent pipe
+  mkdir -p "$1"; rm -rf "${1:?}"/*; dir=$1; shift
+  status=$(cd "$dir" && "$PY" -c '
+import os, signal, subprocess, sys, time
+r, w = os.pipe()
+p = subprocess.Popen(sys.argv[1:], stdin=r, stdout=open("../stdout", "w"), stderr=open("../stderr", "w"),
+                     preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL))
+for _ in range(1000):  # up to 20 s for it to start and block
+    try:
+        if "pipe_read" in open("/proc/%d/wchan" % p.pid).read():
+            break
+    except OSError:
+        pass
+    if p.poll() is not None:
+        sys.exit(200)  # 200: it ended before the signal
+    time.sleep(0.02)
+else:
+    p.kill(); p.wait(); sys.exit(202)  # 202: never blocked on the pipe
+p.send_signal(signal.SIGINT)
+try:
+    status = p.wait(timeout=120)
+except subprocess.TimeoutExpired:
+    p.kill(); p.wait(); status = 201  # 201: still waiting two minutes after the signal
+sys.exit(status)
+' "$BELLCHECK" "$@"); status=$?; out="$TMP/stdout"; err="$TMP/stderr"
+}
+idle_checks() { # idle_checks COMMAND: the checks of one interrupted wait
+  expect_status "Ctrl-C while $1 waits on standard input: exit 130" 130
+  expect_in "Ctrl-C while $1 waits on standard input: the reading stopped" "$err" "<stdin>: error: stopped on request while reading"
+  expect_in "Ctrl-C while $1 waits on standard input: says so" "$err" "bellcheck $1: interrupted (Ctrl-C) during"
+  expect_run_empty "Ctrl-C while $1 waits on standard input: no file"
+}
+interrupt_idle "$TMP/run" score "$ROOT/models/puterman-two-state.bell" --q - --json out.json
+idle_checks score
+interrupt_idle "$TMP/run" verify "$ROOT/models/puterman-two-state.bell" - --json out.json
+idle_checks verify
+interrupt_idle "$TMP/run" rollout "$ROOT/tests/tasks/hand-walk.task" --cells 10 --policy - --json out.json
+idle_checks rollout
 # verify: the exact check of tests/tools/wide_exact_model.py (1000 states and a terminal
 # one, 300 successors, rewards with 50-digit denominators) sums fractions of thousands of
 # digits for seconds, while reading the model and the certificate takes hundredths of a second.
