@@ -224,9 +224,9 @@ int bc_cli_verify(int argc, char **argv)
     bc_verdict v;
     int vr = bc_verify_certificate(m, &cert, &v);
     if (bc_stop_requested()) { /* Ctrl-C: whatever the check found is not reported */
-        char what[320];
-        snprintf(what, sizeof what, "the check of the certificate%s%s%s", vr == -2 ? " (" : "",
-                 vr == -2 ? v.message : "", vr == -2 ? ")" : "");
+        char what[320] = "the check of the certificate";
+        if (vr == -2) /* stopped part-way: the verdict's message says where */
+            snprintf(what, sizeof what, "the check of the certificate (%s)", v.message);
         rc = bc_cli_interrupted("verify", what, NAN);
     } else if (vr < 0) {
         fprintf(stderr, "bellcheck verify: out of memory\n");

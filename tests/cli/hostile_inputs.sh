@@ -187,34 +187,13 @@ bc solve "$TMP/g300.bell" --proof exact --max-memory 2M --show 0
 expect_status "--max-memory above dense exact evaluation: exit 0" 0
 
 # ---- Ctrl-C during a long solve (SIGINT): the best proven bound, exit 130, no output ----
-# The command runs under Python with SIGINT at its default (a shell would start a background
-# job with SIGINT ignored); the signal is sent once the process has used 1 s of CPU time,
-# when it is surely solving (reading these models takes a few hundredths of a second).
-# Waiting for that point is not a timed assertion: what is checked holds whenever it comes.
-# A command still running two minutes after the signal has failed anyway (it ignored it, or
-# reads an endless input): it is killed and the status is 201, so the suite never hangs.
+# tests/tools/interrupt.py runs the command with SIGINT at its default and sends the signal
+# once it has used 1 s of CPU time, when it is surely solving (reading these models takes a
+# few hundredths of a second); a command still running two minutes later is killed (201).
 interrupt() { # interrupt DIR ARGS...: runs bellcheck ARGS in DIR, Ctrl-C after 1 s of CPU
   dir=$1; shift
-  (cd "$dir" && "$PY" -c '
-import os, signal, subprocess, sys, time
-p = subprocess.Popen(sys.argv[1:], stdout=open("../stdout", "w"), stderr=open("../stderr", "w"),
-                     preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL))
-def cpu_ticks():
-    fields = open("/proc/%d/stat" % p.pid).read().rsplit(")", 1)[1].split()
-    return int(fields[11]) + int(fields[12])
-while p.poll() is None and cpu_ticks() < os.sysconf("SC_CLK_TCK"):
-    time.sleep(0.02)
-if p.poll() is not None:
-    sys.exit(200)  # 200: it ended before the signal
-p.send_signal(signal.SIGINT)
-try:
-    status = p.wait(timeout=120)
-except subprocess.TimeoutExpired:
-    p.kill()
-    p.wait()
-    status = 201  # 201: still running two minutes after the signal
-sys.exit(status)
-' "$BELLCHECK" "$@"); status=$?; out="$TMP/stdout"; err="$TMP/stderr"
+  (cd "$dir" && "$PY" "$ROOT/tests/tools/interrupt.py" cpu "$BELLCHECK" "$@"); status=$?
+  out="$TMP/stdout"; err="$TMP/stderr"
 }
 expect_run_empty() { # NAME: the command left nothing in $TMP/run, not even a temporary file
   if [ -z "$(ls -A "$TMP/run")" ]; then pass "$1"; else fail "$1" "$(ls -A "$TMP/run")"; fi
@@ -296,33 +275,12 @@ for cmd in check solve; do
   expect_run_empty "Ctrl-C while $cmd reads a model: no file"
 done
 # A wait on standard input that sends nothing (an agent, a certificate or a task given as `-`
-# from a terminal or a silent pipe) ends on Ctrl-C too.  The signal is sent once the process
-# is blocked reading the pipe (/proc/PID/wchan names the kernel's pipe read; Linux).
+# from a terminal or a silent pipe) ends on Ctrl-C too; interrupt.py sends the signal once
+# the process is blocked reading the pipe.
 interrupt_idle() { # interrupt_idle DIR ARGS...: bellcheck ARGS in DIR, stdin a silent pipe
   mkdir -p "$1"; rm -rf "${1:?}"/*; dir=$1; shift
-  status=$(cd "$dir" && "$PY" -c '
-import os, signal, subprocess, sys, time
-r, w = os.pipe()
-p = subprocess.Popen(sys.argv[1:], stdin=r, stdout=open("../stdout", "w"), stderr=open("../stderr", "w"),
-                     preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL))
-for _ in range(1000):  # up to 20 s for it to start and block
-    try:
-        if "pipe_read" in open("/proc/%d/wchan" % p.pid).read():
-            break
-    except OSError:
-        pass
-    if p.poll() is not None:
-        sys.exit(200)  # 200: it ended before the signal
-    time.sleep(0.02)
-else:
-    p.kill(); p.wait(); sys.exit(202)  # 202: never blocked on the pipe
-p.send_signal(signal.SIGINT)
-try:
-    status = p.wait(timeout=120)
-except subprocess.TimeoutExpired:
-    p.kill(); p.wait(); status = 201  # 201: still waiting two minutes after the signal
-sys.exit(status)
-' "$BELLCHECK" "$@"); status=$?; out="$TMP/stdout"; err="$TMP/stderr"
+  (cd "$dir" && "$PY" "$ROOT/tests/tools/interrupt.py" pipe "$BELLCHECK" "$@"); status=$?
+  out="$TMP/stdout"; err="$TMP/stderr"
 }
 idle_checks() { # idle_checks COMMAND: the checks of one interrupted wait
   expect_status "Ctrl-C while $1 waits on standard input: exit 130" 130
