@@ -866,7 +866,7 @@ bc_model *bc__bell_reader_finish(bc__bell_reader *r)
     bc_builder *b = r->b;
     r->b = NULL;
     bc__bell_reader_free(r); /* the token array and the cache go before the model is assembled */
-    return bc_builder_finish(b, NULL);
+    return bc_builder_finish(b);
 }
 
 bc_model *bc_read_bell_text(const char *buf, size_t len, const char *file_label, bc_diag *d)

@@ -854,6 +854,6 @@ bc_model *bc_read_bell_json(const char *buf, size_t len, const char *file_label,
     if (rc < 0 || c.n_errors > 0)
         bc_builder_free(c.b); /* the builder's own errors are already in d */
     else
-        m = bc_builder_finish(c.b, NULL); /* default label: the file's base name */
+        m = bc_builder_finish(c.b); /* default label: the file's base name */
     return m;
 }

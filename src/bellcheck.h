@@ -326,9 +326,9 @@ int bc_builder_succ_id(bc_builder *b, int32_t state, uint32_t prob_id, bc_pos at
 int bc_builder_pair_end_summed(bc_builder *b, bc_pos at);
 void bc_builder_pair_cancel(bc_builder *b); /* drops the open line (after an error was reported) */
 /* Sorts, checks and returns the model (NULL if any error was reported);
- * the builder is freed in both cases.  default_name NULL: the file label's
- * base name without its extension. */
-bc_model *bc_builder_finish(bc_builder *b, const char *default_name);
+ * the builder is freed in both cases.  Without bc_builder_name the model is
+ * labelled by the file label's base name without its extension. */
+bc_model *bc_builder_finish(bc_builder *b);
 
 /* ------------------------------------------------------------------------ */
 /* Readers and writers (formats/)                                           */

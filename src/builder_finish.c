@@ -480,7 +480,7 @@ static char *base_name(const char *path)
 static bc_model *assemble(bc_builder *b, uint8_t *term, int64_t **order,
                           const int32_t *perm_state, const int32_t *inv_state, int state_identity,
                           const int32_t *perm_action, const int32_t *inv_action,
-                          int action_identity, const char *default_name)
+                          int action_identity)
 {
     int32_t ns = bc_names_count(b->states.names), na = bc_names_count(b->actions.names);
     bc_model *m = bc_model_alloc(ns, na, 0, 0); /* pair and transition arrays come below */
@@ -498,7 +498,7 @@ static bc_model *assemble(bc_builder *b, uint8_t *term, int64_t **order,
     bc_numtab_free(m->values);
     m->values = b->values;
     b->values = NULL;
-    m->name = b->label ? strdup(b->label) : default_name ? strdup(default_name) : base_name(b->file);
+    m->name = b->label ? strdup(b->label) : base_name(b->file);
     m->state_names = state_identity ? b->states.names : bc_names_permuted(b->states.names, perm_state);
     if (state_identity)
         b->states.names = NULL;
@@ -535,7 +535,7 @@ static bc_model *assemble(bc_builder *b, uint8_t *term, int64_t **order,
     return m;
 }
 
-bc_model *bc_builder_finish(bc_builder *b, const char *default_name)
+bc_model *bc_builder_finish(bc_builder *b)
 {
     assert(!b->pair_open);
     bc_pos nowhere = {0, 0, NULL};
@@ -577,7 +577,7 @@ bc_model *bc_builder_finish(bc_builder *b, const char *default_name)
         goto done;
     free(b->p_col); /* columns served the messages above; the model keeps lines only */
     b->p_col = NULL;
-    m = assemble(b, term, &ps.order, perm_s, inv_s, sid, perm_a, inv_a, aid, default_name);
+    m = assemble(b, term, &ps.order, perm_s, inv_s, sid, perm_a, inv_a, aid);
     term = NULL; /* owned by the model now (or freed with it) */
     if (!m) {
         bc__builder_report(b, BC_ERROR, nowhere, "out of memory while building the model");

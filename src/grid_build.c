@@ -498,5 +498,5 @@ bc_model *bc_grid_model(const bc_task *t, const bc_grid_opts *o, bc_diag *d)
     bc_builder *b = s.b;
     s.b = NULL;
     gb_free(&s);
-    return bc_builder_finish(b, NULL);
+    return bc_builder_finish(b);
 }
